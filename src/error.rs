@@ -1,0 +1,100 @@
+//! The one error type of the crate.
+//!
+//! Every fallible function returns `Result<_, Error>`. The variants name the physics that was
+//! violated, not the code path. `Error` is `Copy`, small (one byte), and implements `Display` and
+//! `core::error::Error`; with the `defmt` feature it implements `defmt::Format`.
+//!
+//! # Examples
+//! ```
+//! use fourforce::Error;
+//! assert_eq!(Error::SpeedNotBelowLight.to_string(), "speed is not below the speed of light");
+//! ```
+
+use core::fmt;
+
+/// What was wrong with an input or a request.
+///
+/// # Examples
+/// ```
+/// use fourforce::Error;
+/// let e: Error = Error::NonFinite;
+/// assert_eq!(e, Error::NonFinite);
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[non_exhaustive]
+pub enum Error {
+    /// An input was NaN or infinite.
+    NonFinite,
+    /// A speed was at or above the speed of light (|β| ≥ 1).
+    SpeedNotBelowLight,
+    /// A mass or rest energy was zero or negative where a positive one is needed.
+    NonPositiveMass,
+    /// A kinetic energy was negative.
+    NegativeEnergy,
+    /// A total energy was below the rest energy, or a Lorentz factor below 1.
+    BelowRestEnergy,
+    /// A momentum, rigidity or other magnitude that must be positive was negative.
+    NegativeMagnitude,
+    /// A charge was zero where the quantity needs one (a rigidity, a deflection).
+    ZeroCharge,
+    /// A field was zero where the quantity needs one (a bending radius, a revolution frequency).
+    ZeroField,
+    /// A time of flight was shorter than light needs over the same length.
+    FasterThanLight,
+    /// A length, duration or step was zero or negative where a positive one is needed.
+    NonPositiveLength,
+    /// A direction vector had zero length.
+    ZeroDirection,
+    /// An angle was outside the range the formula covers (for example a bend beyond 90°).
+    AngleOutOfRange,
+    /// A result does not fit in the working precision.
+    Overflow,
+    /// A fixed-capacity container was full.
+    CapacityFull,
+    /// An index was past the end of a sequence.
+    OutOfBounds,
+    /// A window or sequence was empty where at least one value is needed.
+    Empty,
+    /// A limit, bound or window was given with its lower end above its upper end.
+    InvalidRange,
+}
+
+impl fmt::Display for Error {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(match self {
+            Error::NonFinite => "input is not a finite number",
+            Error::SpeedNotBelowLight => "speed is not below the speed of light",
+            Error::NonPositiveMass => "mass is zero or negative",
+            Error::NegativeEnergy => "kinetic energy is negative",
+            Error::BelowRestEnergy => "energy is below the rest energy",
+            Error::NegativeMagnitude => "magnitude is negative",
+            Error::ZeroCharge => "charge is zero",
+            Error::ZeroField => "field is zero",
+            Error::FasterThanLight => "time of flight is shorter than light needs",
+            Error::NonPositiveLength => "length or duration is zero or negative",
+            Error::ZeroDirection => "direction has zero length",
+            Error::AngleOutOfRange => "angle is outside the range of the formula",
+            Error::Overflow => "result does not fit in the working precision",
+            Error::CapacityFull => "fixed capacity is full",
+            Error::OutOfBounds => "index is out of bounds",
+            Error::Empty => "no values where at least one is needed",
+            Error::InvalidRange => "lower bound is above upper bound",
+        })
+    }
+}
+
+impl core::error::Error for Error {}
+
+#[cfg(test)]
+mod tests {
+    use super::Error;
+
+    #[test]
+    fn error_is_one_byte_and_copy() {
+        assert_eq!(core::mem::size_of::<Error>(), 1);
+        let a = Error::ZeroCharge;
+        let b = a;
+        assert_eq!(a, b);
+    }
+}

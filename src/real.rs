@@ -1,0 +1,458 @@
+//! The scalar: one sealed trait, implemented for `f32` and `f64`.
+//!
+//! Every public type and function of the crate is generic over [`Real`]. The trait carries the
+//! arithmetic operators, the mathematical functions (all through `libm`, so results are the same
+//! on the host and on the chip), and the physical constants of [`consts`](crate::consts) rounded
+//! once to the precision. It is sealed: only `f32` and `f64` implement it.
+//!
+//! # For firmware authors
+//! The `f32` path never touches `f64` at run time: constants are converted at compile time, and
+//! every function maps to its single-precision `libm` routine (`sqrtf`, `hypotf`, ...).
+//!
+//! # Examples
+//! ```
+//! use fourforce::Real;
+//! fn kinetic_over_rest<T: Real>(t: T, m: T) -> T { t / m }
+//! assert_eq!(kinetic_over_rest(1.0_f32, 2.0), 0.5);
+//! assert_eq!(<f32 as Real>::SPEED_OF_LIGHT, 299_792_448.0);
+//! ```
+
+use core::fmt::{Debug, Display, LowerExp};
+use core::ops::{Add, AddAssign, Div, DivAssign, Mul, MulAssign, Neg, Sub, SubAssign};
+
+use crate::consts;
+
+mod private {
+    pub trait Sealed {}
+    impl Sealed for f32 {}
+    impl Sealed for f64 {}
+}
+
+/// `defmt::Format` when the `defmt` feature is on, nothing otherwise.
+#[cfg(feature = "defmt")]
+pub trait MaybeFormat: defmt::Format {}
+#[cfg(feature = "defmt")]
+impl<T: defmt::Format> MaybeFormat for T {}
+/// `defmt::Format` when the `defmt` feature is on, nothing otherwise.
+#[cfg(not(feature = "defmt"))]
+pub trait MaybeFormat {}
+#[cfg(not(feature = "defmt"))]
+impl<T> MaybeFormat for T {}
+
+/// A floating-point scalar: `f32` or `f64`, nothing else (the trait is sealed).
+///
+/// Constants are the values of [`consts`](crate::consts) rounded once to `Self`. Functions are
+/// `libm`'s; their accuracy is `libm`'s (correctly rounded for `sqrt`, within about 1 ulp for the
+/// others).
+///
+/// # Examples
+/// ```
+/// use fourforce::Real;
+/// fn hyp<T: Real>(a: T, b: T) -> T { a.hypot(b) }
+/// assert_eq!(hyp(3.0_f64, 4.0), 5.0);
+/// ```
+pub trait Real:
+    private::Sealed
+    + Copy
+    + Default
+    + PartialEq
+    + PartialOrd
+    + Debug
+    + Display
+    + LowerExp
+    + MaybeFormat
+    + Add<Output = Self>
+    + Sub<Output = Self>
+    + Mul<Output = Self>
+    + Div<Output = Self>
+    + Neg<Output = Self>
+    + AddAssign
+    + SubAssign
+    + MulAssign
+    + DivAssign
+    + Send
+    + Sync
+    + 'static
+{
+    /// 0.
+    const ZERO: Self;
+    /// 1.
+    const ONE: Self;
+    /// 2.
+    const TWO: Self;
+    /// 1/2.
+    const HALF: Self;
+    /// π.
+    const PI: Self;
+    /// Machine epsilon, `2⁻²³` for `f32` and `2⁻⁵²` for `f64`.
+    const EPSILON: Self;
+    /// The largest finite value.
+    const MAX: Self;
+    /// The smallest positive normal value.
+    const MIN_POSITIVE: Self;
+    /// Positive infinity.
+    const INFINITY: Self;
+    /// Number of significand bits, including the implicit one (24 or 53).
+    const MANTISSA_DIGITS: u32;
+
+    /// Speed of light `c` in m/s, rounded to `Self` (299 792 448 in `f32`).
+    const SPEED_OF_LIGHT: Self;
+    /// High part of `c` in m/s: `c = C_HI + C_LO` exactly (`C_LO = 0` in `f64`).
+    const C_HI: Self;
+    /// Low part of `c` in m/s: 10 in `f32`, 0 in `f64`.
+    const C_LO: Self;
+    /// `1/c` in s/m, correctly rounded to `Self`.
+    const INV_SPEED_OF_LIGHT: Self;
+    /// Elementary charge `e` in C.
+    const ELEMENTARY_CHARGE: Self;
+    /// Electron rest energy in eV (CODATA 2018).
+    const ELECTRON_REST_ENERGY: Self;
+    /// Proton rest energy in eV (CODATA 2018).
+    const PROTON_REST_ENERGY: Self;
+    /// Neutron rest energy in eV (CODATA 2018).
+    const NEUTRON_REST_ENERGY: Self;
+    /// Muon rest energy in eV (CODATA 2018).
+    const MUON_REST_ENERGY: Self;
+    /// Deuteron rest energy in eV (CODATA 2018).
+    const DEUTERON_REST_ENERGY: Self;
+    /// Triton rest energy in eV (CODATA 2018).
+    const TRITON_REST_ENERGY: Self;
+    /// Helion rest energy in eV (CODATA 2018).
+    const HELION_REST_ENERGY: Self;
+    /// Alpha-particle rest energy in eV (CODATA 2018).
+    const ALPHA_REST_ENERGY: Self;
+    /// Atomic mass constant energy equivalent in eV (CODATA 2018).
+    const ATOMIC_MASS_UNIT_ENERGY: Self;
+
+    /// Rounds an `f64` to `Self`; meant for literals and constants, which fold at compile time.
+    fn from_f64(x: f64) -> Self;
+    /// Widens (or keeps) to `f64`; for host-side comparisons, not for the `f32` hot path.
+    fn to_f64(self) -> f64;
+    /// Converts a step count or other integer exactly where it fits in the significand.
+    fn from_u32(n: u32) -> Self;
+    /// Converts a signed integer, rounding where it does not fit in the significand.
+    fn from_i32(n: i32) -> Self;
+    /// Square root, correctly rounded; NaN below zero.
+    fn sqrt(self) -> Self;
+    /// `sqrt(self² + other²)` without undue overflow or underflow.
+    fn hypot(self, other: Self) -> Self;
+    /// Absolute value.
+    fn abs(self) -> Self;
+    /// Fused multiply-add `self * a + b` with one rounding (software where the chip lacks it).
+    fn mul_add(self, a: Self, b: Self) -> Self;
+    /// Sine (radians).
+    fn sin(self) -> Self;
+    /// Cosine (radians).
+    fn cos(self) -> Self;
+    /// Tangent (radians).
+    fn tan(self) -> Self;
+    /// Arcsine, in radians.
+    fn asin(self) -> Self;
+    /// Arccosine, in radians.
+    fn acos(self) -> Self;
+    /// Arctangent, in radians.
+    fn atan(self) -> Self;
+    /// Four-quadrant arctangent of `self / x`, in radians.
+    fn atan2(self, x: Self) -> Self;
+    /// Hyperbolic sine.
+    fn sinh(self) -> Self;
+    /// Hyperbolic cosine.
+    fn cosh(self) -> Self;
+    /// Hyperbolic tangent.
+    fn tanh(self) -> Self;
+    /// Inverse hyperbolic tangent.
+    fn atanh(self) -> Self;
+    /// `eˣ`.
+    fn exp(self) -> Self;
+    /// `eˣ - 1`, accurate near 0.
+    fn exp_m1(self) -> Self;
+    /// Natural logarithm.
+    fn ln(self) -> Self;
+    /// `ln(1 + x)`, accurate near 0.
+    fn ln_1p(self) -> Self;
+    /// Round half away from zero.
+    fn round(self) -> Self;
+    /// Largest integer not above `self`.
+    fn floor(self) -> Self;
+    /// `|self|` with the sign of `sign`.
+    fn copysign(self, sign: Self) -> Self;
+    /// True unless infinite or NaN.
+    fn is_finite(self) -> bool;
+    /// True for NaN.
+    fn is_nan(self) -> bool;
+    /// True when the sign bit is set (also for -0.0 and negative NaN).
+    fn is_sign_negative(self) -> bool;
+    /// The smaller of two values (the other if one is NaN).
+    fn min(self, other: Self) -> Self;
+    /// The larger of two values (the other if one is NaN).
+    fn max(self, other: Self) -> Self;
+    /// The raw bits, widened to `u64`.
+    fn to_bits_u64(self) -> u64;
+}
+
+macro_rules! impl_real {
+    ($t:ident, $bits:ty, $digits:expr, $c_hi:expr, $c_lo:expr,
+     $sqrt:ident, $hypot:ident, $fabs:ident, $fma:ident, $sin:ident, $cos:ident, $tan:ident,
+     $asin:ident, $acos:ident, $atan:ident, $atan2:ident, $sinh:ident, $cosh:ident,
+     $tanh:ident, $atanh:ident, $exp:ident, $expm1:ident, $log:ident, $log1p:ident,
+     $round:ident, $floor:ident, $copysign:ident, $fmin:ident, $fmax:ident) => {
+        impl Real for $t {
+            const ZERO: Self = 0.0;
+            const ONE: Self = 1.0;
+            const TWO: Self = 2.0;
+            const HALF: Self = 0.5;
+            const PI: Self = core::$t::consts::PI;
+            const EPSILON: Self = $t::EPSILON;
+            const MAX: Self = $t::MAX;
+            const MIN_POSITIVE: Self = $t::MIN_POSITIVE;
+            const INFINITY: Self = $t::INFINITY;
+            const MANTISSA_DIGITS: u32 = $digits;
+
+            const SPEED_OF_LIGHT: Self = consts::SPEED_OF_LIGHT as $t;
+            const C_HI: Self = $c_hi;
+            const C_LO: Self = $c_lo;
+            const INV_SPEED_OF_LIGHT: Self = (1.0 / consts::SPEED_OF_LIGHT) as $t;
+            const ELEMENTARY_CHARGE: Self = consts::ELEMENTARY_CHARGE as $t;
+            const ELECTRON_REST_ENERGY: Self = consts::ELECTRON_REST_ENERGY as $t;
+            const PROTON_REST_ENERGY: Self = consts::PROTON_REST_ENERGY as $t;
+            const NEUTRON_REST_ENERGY: Self = consts::NEUTRON_REST_ENERGY as $t;
+            const MUON_REST_ENERGY: Self = consts::MUON_REST_ENERGY as $t;
+            const DEUTERON_REST_ENERGY: Self = consts::DEUTERON_REST_ENERGY as $t;
+            const TRITON_REST_ENERGY: Self = consts::TRITON_REST_ENERGY as $t;
+            const HELION_REST_ENERGY: Self = consts::HELION_REST_ENERGY as $t;
+            const ALPHA_REST_ENERGY: Self = consts::ALPHA_REST_ENERGY as $t;
+            const ATOMIC_MASS_UNIT_ENERGY: Self = consts::ATOMIC_MASS_UNIT_ENERGY as $t;
+
+            #[inline(always)]
+            fn from_f64(x: f64) -> Self {
+                x as $t
+            }
+            #[inline(always)]
+            fn to_f64(self) -> f64 {
+                self as f64
+            }
+            #[inline(always)]
+            fn from_u32(n: u32) -> Self {
+                n as $t
+            }
+            #[inline(always)]
+            fn from_i32(n: i32) -> Self {
+                n as $t
+            }
+            #[inline(always)]
+            fn sqrt(self) -> Self {
+                libm::$sqrt(self)
+            }
+            #[inline(always)]
+            fn hypot(self, other: Self) -> Self {
+                libm::$hypot(self, other)
+            }
+            #[inline(always)]
+            fn abs(self) -> Self {
+                libm::$fabs(self)
+            }
+            #[inline(always)]
+            fn mul_add(self, a: Self, b: Self) -> Self {
+                libm::$fma(self, a, b)
+            }
+            #[inline(always)]
+            fn sin(self) -> Self {
+                libm::$sin(self)
+            }
+            #[inline(always)]
+            fn cos(self) -> Self {
+                libm::$cos(self)
+            }
+            #[inline(always)]
+            fn tan(self) -> Self {
+                libm::$tan(self)
+            }
+            #[inline(always)]
+            fn asin(self) -> Self {
+                libm::$asin(self)
+            }
+            #[inline(always)]
+            fn acos(self) -> Self {
+                libm::$acos(self)
+            }
+            #[inline(always)]
+            fn atan(self) -> Self {
+                libm::$atan(self)
+            }
+            #[inline(always)]
+            fn atan2(self, x: Self) -> Self {
+                libm::$atan2(self, x)
+            }
+            #[inline(always)]
+            fn sinh(self) -> Self {
+                libm::$sinh(self)
+            }
+            #[inline(always)]
+            fn cosh(self) -> Self {
+                libm::$cosh(self)
+            }
+            #[inline(always)]
+            fn tanh(self) -> Self {
+                libm::$tanh(self)
+            }
+            #[inline(always)]
+            fn atanh(self) -> Self {
+                libm::$atanh(self)
+            }
+            #[inline(always)]
+            fn exp(self) -> Self {
+                libm::$exp(self)
+            }
+            #[inline(always)]
+            fn exp_m1(self) -> Self {
+                libm::$expm1(self)
+            }
+            #[inline(always)]
+            fn ln(self) -> Self {
+                libm::$log(self)
+            }
+            #[inline(always)]
+            fn ln_1p(self) -> Self {
+                libm::$log1p(self)
+            }
+            #[inline(always)]
+            fn round(self) -> Self {
+                libm::$round(self)
+            }
+            #[inline(always)]
+            fn floor(self) -> Self {
+                libm::$floor(self)
+            }
+            #[inline(always)]
+            fn copysign(self, sign: Self) -> Self {
+                libm::$copysign(self, sign)
+            }
+            #[inline(always)]
+            fn is_finite(self) -> bool {
+                $t::is_finite(self)
+            }
+            #[inline(always)]
+            fn is_nan(self) -> bool {
+                $t::is_nan(self)
+            }
+            #[inline(always)]
+            fn is_sign_negative(self) -> bool {
+                $t::is_sign_negative(self)
+            }
+            #[inline(always)]
+            fn min(self, other: Self) -> Self {
+                libm::$fmin(self, other)
+            }
+            #[inline(always)]
+            fn max(self, other: Self) -> Self {
+                libm::$fmax(self, other)
+            }
+            #[inline(always)]
+            fn to_bits_u64(self) -> u64 {
+                self.to_bits() as u64
+            }
+        }
+    };
+}
+
+impl_real!(
+    f32,
+    u32,
+    24,
+    consts::C_F32_HI,
+    consts::C_F32_LO,
+    sqrtf,
+    hypotf,
+    fabsf,
+    fmaf,
+    sinf,
+    cosf,
+    tanf,
+    asinf,
+    acosf,
+    atanf,
+    atan2f,
+    sinhf,
+    coshf,
+    tanhf,
+    atanhf,
+    expf,
+    expm1f,
+    logf,
+    log1pf,
+    roundf,
+    floorf,
+    copysignf,
+    fminf,
+    fmaxf
+);
+impl_real!(
+    f64,
+    u64,
+    53,
+    consts::SPEED_OF_LIGHT,
+    0.0,
+    sqrt,
+    hypot,
+    fabs,
+    fma,
+    sin,
+    cos,
+    tan,
+    asin,
+    acos,
+    atan,
+    atan2,
+    sinh,
+    cosh,
+    tanh,
+    atanh,
+    exp,
+    expm1,
+    log,
+    log1p,
+    round,
+    floor,
+    copysign,
+    fmin,
+    fmax
+);
+
+/// Returns `Ok(x)` when `x` is finite, else [`Error::NonFinite`](crate::Error::NonFinite).
+///
+/// The common first check of every constructor that takes numbers from outside.
+///
+/// # Examples
+/// ```
+/// use fourforce::{finite, Error};
+/// assert_eq!(finite(1.5_f32), Ok(1.5));
+/// assert_eq!(finite(f32::NAN), Err(Error::NonFinite));
+/// ```
+#[inline]
+pub fn finite<T: Real>(x: T) -> Result<T, crate::Error> {
+    if x.is_finite() {
+        Ok(x)
+    } else {
+        Err(crate::Error::NonFinite)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn c_split_is_exact_in_both_precisions() {
+        // SI 2019: c = 299 792 458 m/s exactly.
+        assert_eq!(f64::from(f32::C_HI) + f64::from(f32::C_LO), 299_792_458.0);
+        assert_eq!(f64::C_HI + f64::C_LO, 299_792_458.0);
+        assert_eq!(f32::SPEED_OF_LIGHT, 299_792_448.0);
+    }
+
+    #[test]
+    fn f32_constants_round_once() {
+        // The nearest f32 values listed in shared/reference/published-checks.md §1 (CODATA 2018).
+        assert_eq!(f32::ELECTRON_REST_ENERGY, 510_998.94_f32);
+        assert_eq!(f64::from(f32::PROTON_REST_ENERGY), 938_272_064.0);
+    }
+}
