@@ -42,6 +42,8 @@ pub const HELION_REST_ENERGY: f64 = 2_808_391_607.43;
 pub const ALPHA_REST_ENERGY: f64 = 3_727_379_406.6;
 /// Atomic mass constant energy equivalent `m_u c²` in eV (CODATA 2018: 931.494 102 42 MeV).
 pub const ATOMIC_MASS_UNIT_ENERGY: f64 = 931_494_102.42;
+/// Electron relative atomic mass `A_r(e)` in u (CODATA 2018: 5.485 799 090 65 × 10⁻⁴).
+pub const ELECTRON_RELATIVE_MASS: f64 = 5.485_799_090_65e-4;
 
 /// Speed of light split into two parts exactly representable in `f32`, `c = C_F32_HI + C_F32_LO`.
 ///

@@ -58,6 +58,7 @@ pub enum Error {
     Empty,
     /// A limit, bound or window was given with its lower end above its upper end.
     InvalidRange,
+    // (new variants: add below, one block per area, with a Display arm in the same order)
 }
 
 impl fmt::Display for Error {

@@ -26,6 +26,7 @@
 pub mod consts;
 mod error;
 mod real;
+mod species;
 mod vector;
 
 // --- foundation: spacetime, field tensor, four-force, boosts ---
@@ -38,4 +39,5 @@ mod vector;
 
 pub use error::Error;
 pub use real::{MaybeFormat, Real, finite};
+pub use species::Species;
 pub use vector::ThreeVector;

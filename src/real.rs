@@ -82,6 +82,8 @@ pub trait Real:
     const TWO: Self;
     /// 1/2.
     const HALF: Self;
+    /// -1.
+    const NEG_ONE: Self;
     /// π.
     const PI: Self;
     /// Machine epsilon, `2⁻²³` for `f32` and `2⁻⁵²` for `f64`.
@@ -123,6 +125,8 @@ pub trait Real:
     const ALPHA_REST_ENERGY: Self;
     /// Atomic mass constant energy equivalent in eV (CODATA 2018).
     const ATOMIC_MASS_UNIT_ENERGY: Self;
+    /// Electron mass in atomic mass units (CODATA 2018).
+    const ELECTRON_RELATIVE_MASS: Self;
 
     /// Rounds an `f64` to `Self`; meant for literals and constants, which fold at compile time.
     fn from_f64(x: f64) -> Self;
@@ -201,6 +205,7 @@ macro_rules! impl_real {
             const ONE: Self = 1.0;
             const TWO: Self = 2.0;
             const HALF: Self = 0.5;
+            const NEG_ONE: Self = -1.0;
             const PI: Self = core::$t::consts::PI;
             const EPSILON: Self = $t::EPSILON;
             const MAX: Self = $t::MAX;
@@ -222,6 +227,7 @@ macro_rules! impl_real {
             const HELION_REST_ENERGY: Self = consts::HELION_REST_ENERGY as $t;
             const ALPHA_REST_ENERGY: Self = consts::ALPHA_REST_ENERGY as $t;
             const ATOMIC_MASS_UNIT_ENERGY: Self = consts::ATOMIC_MASS_UNIT_ENERGY as $t;
+            const ELECTRON_RELATIVE_MASS: Self = consts::ELECTRON_RELATIVE_MASS as $t;
 
             #[inline(always)]
             fn from_f64(x: f64) -> Self {

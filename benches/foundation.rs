@@ -1,0 +1,2 @@
+//! Benchmarks of the foundation modules (criterion); filled in with the modules.
+fn main() {}

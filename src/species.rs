@@ -1,0 +1,280 @@
+//! Particle species: rest energy and charge.
+//!
+//! A [`Species`] is the pair (rest energy `mc²` in eV, charge `Q` in units of the elementary
+//! charge `e`). The named particles are `const` values built from the CODATA 2018 rest energies;
+//! any ion is built from its rest energy and charge state, or from the neutral atom's mass.
+//!
+//! # For firmware authors
+//! Everything here is `const`: put the species of your machine in a `static` and pass it by value
+//! (two floats).
+//!
+//! # Examples
+//! ```
+//! use fourforce::Species;
+//! const BEAM: Species<f32> = Species::PROTON;
+//! assert_eq!(BEAM.charge(), 1.0);
+//! assert_eq!(BEAM.rest_energy(), 938_272_064.0); // CODATA 2018, rounded to f32
+//! ```
+
+use crate::{Error, Real};
+
+/// A particle species: rest energy `mc²` (eV) and charge `Q` (units of `e`, with sign).
+///
+/// # Examples
+/// ```
+/// use fourforce::Species;
+/// let carbon6 = Species::<f64>::try_new(11_174_864_265.448, 6.0)?;
+/// assert_eq!(carbon6.charge(), 6.0);
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Species<T: Real> {
+    rest_energy: T,
+    charge: T,
+}
+
+impl<T: Real> Species<T> {
+    /// Electron: `mₑc²` = 0.510 998 950 00 MeV (CODATA 2018), Q = -1.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f64>::ELECTRON.rest_energy(), 510_998.95);
+    /// ```
+    pub const ELECTRON: Self = Self::new(T::ELECTRON_REST_ENERGY, T::NEG_ONE);
+    /// Positron: the electron's rest energy, Q = +1.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f64>::POSITRON.charge(), 1.0);
+    /// ```
+    pub const POSITRON: Self = Self::new(T::ELECTRON_REST_ENERGY, T::ONE);
+    /// Proton: `mₚc²` = 938.272 088 16 MeV (CODATA 2018), Q = +1.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f64>::PROTON.rest_energy(), 938_272_088.16);
+    /// ```
+    pub const PROTON: Self = Self::new(T::PROTON_REST_ENERGY, T::ONE);
+    /// Antiproton: the proton's rest energy, Q = -1.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f64>::ANTIPROTON.charge(), -1.0);
+    /// ```
+    pub const ANTIPROTON: Self = Self::new(T::PROTON_REST_ENERGY, T::NEG_ONE);
+    /// Negative muon: `m_μc²` = 105.658 3755 MeV (CODATA 2018), Q = -1.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f64>::MUON.rest_energy(), 105_658_375.5);
+    /// ```
+    pub const MUON: Self = Self::new(T::MUON_REST_ENERGY, T::NEG_ONE);
+    /// Positive muon (antimuon): the muon's rest energy, Q = +1.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f64>::ANTIMUON.charge(), 1.0);
+    /// ```
+    pub const ANTIMUON: Self = Self::new(T::MUON_REST_ENERGY, T::ONE);
+    /// Deuteron: `m_dc²` = 1875.612 942 57 MeV (CODATA 2018), Q = +1.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f64>::DEUTERON.rest_energy(), 1_875_612_942.57);
+    /// ```
+    pub const DEUTERON: Self = Self::new(T::DEUTERON_REST_ENERGY, T::ONE);
+    /// Triton: `m_tc²` = 2808.921 132 98 MeV (CODATA 2018), Q = +1.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f64>::TRITON.rest_energy(), 2_808_921_132.98);
+    /// ```
+    pub const TRITON: Self = Self::new(T::TRITON_REST_ENERGY, T::ONE);
+    /// Helion (³He²⁺): `m_hc²` = 2808.391 607 43 MeV (CODATA 2018), Q = +2.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f64>::HELION.charge(), 2.0);
+    /// ```
+    pub const HELION: Self = Self::new(T::HELION_REST_ENERGY, T::TWO);
+    /// Alpha particle (⁴He²⁺): `m_αc²` = 3727.379 4066 MeV (CODATA 2018), Q = +2.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f64>::ALPHA.rest_energy(), 3_727_379_406.6);
+    /// ```
+    pub const ALPHA: Self = Self::new(T::ALPHA_REST_ENERGY, T::TWO);
+
+    /// Builds a species from a rest energy (eV) and a charge (units of `e`), without checks.
+    ///
+    /// For `const` tables of trusted values; see [`try_new`](Self::try_new) for values from
+    /// outside.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// // An invented singly charged ion of 40 GeV rest energy.
+    /// const ION: Species<f32> = Species::new(40.0e9, 1.0);
+    /// assert_eq!(ION.rest_energy(), 40.0e9);
+    /// ```
+    #[must_use]
+    pub const fn new(rest_energy: T, charge: T) -> Self {
+        Self {
+            rest_energy,
+            charge,
+        }
+    }
+
+    /// Builds a species from a rest energy (eV) and a charge (units of `e`), checking both.
+    ///
+    /// A zero charge is accepted (a neutral species has a speed and a momentum); the quantities
+    /// that need a charge (rigidities, deflections) refuse it with [`Error::ZeroCharge`].
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`] if either value is NaN or infinite; [`Error::NonPositiveMass`] if the
+    /// rest energy is zero or negative.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, Species};
+    /// assert!(Species::try_new(1.0e9_f32, 1.0).is_ok());
+    /// assert_eq!(Species::try_new(-1.0_f32, 1.0), Err(Error::NonPositiveMass));
+    /// ```
+    pub fn try_new(rest_energy: T, charge: T) -> Result<Self, Error> {
+        if !rest_energy.is_finite() || !charge.is_finite() {
+            return Err(Error::NonFinite);
+        }
+        if rest_energy <= T::ZERO {
+            return Err(Error::NonPositiveMass);
+        }
+        Ok(Self::new(rest_energy, charge))
+    }
+
+    /// Builds a positive ion from the neutral atom's mass with `electrons_removed` electrons taken
+    /// away.
+    ///
+    /// `mc² = A_r · m_uc² − n · mₑc² + B` in eV, with `A_r` the atom's relative mass in u,
+    /// `n = electrons_removed` and `B` the total binding energy (eV) of the removed electrons
+    /// (the sum of their ionisation energies). Charge `Q = n`.
+    ///
+    /// What is neglected: `B` if you pass 0. It is 1030 eV for a bare carbon ion (about 9e-8 of
+    /// its rest energy, below f32 resolution but far above f64's) and grows to about 0.8 MeV for a
+    /// bare uranium ion (4e-6); pass it when f64 accuracy matters.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`] for a non-finite mass or binding energy; [`Error::NonPositiveMass`]
+    /// when the result is not positive (for example a zero atomic mass).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// // Bare carbon-12: B = 1030.108 eV (NIST Atomic Spectra Database, from memory).
+    /// let c6 = Species::<f64>::try_from_atom(12.0, 6, 1030.108)?;
+    /// assert!((c6.rest_energy() / 11_174_864_265.448 - 1.0).abs() < 1e-15);
+    /// assert_eq!(c6.charge(), 6.0);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_from_atom(
+        atomic_mass_u: T,
+        electrons_removed: u32,
+        binding_energy: T,
+    ) -> Result<Self, Error> {
+        if !atomic_mass_u.is_finite() || !binding_energy.is_finite() {
+            return Err(Error::NonFinite);
+        }
+        let n = T::from_u32(electrons_removed);
+        let rest = atomic_mass_u * T::ATOMIC_MASS_UNIT_ENERGY - n * T::ELECTRON_REST_ENERGY
+            + binding_energy;
+        Self::try_new(rest, n)
+    }
+
+    /// Rest energy `mc²` in eV.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f32>::ELECTRON.rest_energy(), 510_998.94);
+    /// ```
+    #[must_use]
+    #[inline]
+    pub const fn rest_energy(self) -> T {
+        self.rest_energy
+    }
+
+    /// Charge `Q` in units of the elementary charge, with sign.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f32>::ELECTRON.charge(), -1.0);
+    /// ```
+    #[must_use]
+    #[inline]
+    pub const fn charge(self) -> T {
+        self.charge
+    }
+
+    /// Charge-to-mass ratio `Q / mc²` in 1/V (units of `e` per eV), the factor of the equation of
+    /// motion in scaled units.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// let p = Species::<f64>::PROTON;
+    /// // times c² gives q/m in C/kg: 9.578 833 156e7 (CODATA 2018).
+    /// let q_over_m = p.charge_over_rest_energy() * 299_792_458.0_f64.powi(2);
+    /// assert!((q_over_m / 95_788_331.5595 - 1.0).abs() < 1e-11);
+    /// ```
+    #[must_use]
+    #[inline]
+    pub fn charge_over_rest_energy(self) -> T {
+        self.charge / self.rest_energy
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    static TABLE: [Species<f32>; 2] = [Species::ELECTRON, Species::ALPHA];
+
+    #[test]
+    fn a_static_holds_species() {
+        assert_eq!(TABLE[1].charge(), 2.0);
+    }
+
+    #[test]
+    fn bare_carbon_matches_published_rest_energy() {
+        // shared/reference/published-checks.md §2: 12 m_u c^2 - 6 m_e c^2 + B_e = 11174.864265448
+        // MeV, CODATA 2018 with B_e = 1030.108 eV (NIST ASD, from memory).
+        let c6 = Species::<f64>::try_from_atom(12.0, 6, 1030.108).unwrap();
+        assert!((c6.rest_energy() / 11_174_864_265.448 - 1.0).abs() < 2e-15);
+        let c6f = Species::<f32>::try_from_atom(12.0, 6, 1030.108).unwrap();
+        assert!((f64::from(c6f.rest_energy()) / 11_174_864_265.448 - 1.0).abs() < 2.0 * 1.2e-7);
+    }
+
+    #[test]
+    fn bad_species_are_refused() {
+        assert_eq!(Species::try_new(0.0_f64, 1.0), Err(Error::NonPositiveMass));
+        assert_eq!(Species::try_new(f64::NAN, 1.0), Err(Error::NonFinite));
+        assert_eq!(
+            Species::try_new(1.0_f64, f64::INFINITY),
+            Err(Error::NonFinite)
+        );
+        assert_eq!(
+            Species::<f32>::try_from_atom(0.0, 0, 0.0),
+            Err(Error::NonPositiveMass)
+        );
+    }
+}
