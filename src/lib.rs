@@ -1,6 +1,44 @@
 //! Relativistic charged-particle kinematics for firmware: `no_std`, no allocation, `f32` and `f64`.
 //!
-//! (The crate manual is written here once the modules below are complete.)
+//! fourforce turns a particle's energy, or any other measured quantity of its motion, into the
+//! numbers a beam controller acts on (speed, momentum, magnetic and electric rigidity, flight
+//! time, the angle a corrector gives) without losing precision in `f32` at low energy or near the
+//! speed of light; it carries four-vectors and the electromagnetic field tensor, the four-force
+//! `K^μ = q F^μ_ν u^ν`, Lorentz boosts of vectors and fields, three published relativistic
+//! pushers, a fixed-capacity beam-line model, a steering step and on-device plausibility checks.
+//!
+//! # Conventions
+//! - Metric signature (+,−,−,−), `x⁰ = ct`; four-velocity in units of c, `u = γ(1, β)`.
+//! - Field tensor `F^{i0} = Eⁱ/c`, `F^{ij} = −ε^{ijk}Bᵏ`, so that `K = γ(qE·v/c, q(E + v×B))`.
+//! - Inside, every quantity sits near 1 so `f32` neither underflows nor overflows: energies and
+//!   momenta in eV (`pc` for momentum), speeds as β, fields in V/m (E and cB), lengths in m.
+//!   SI is offered at the boundary (N, kg m/s, T, s).
+//! - Charge `Q` in units of the elementary charge, with sign; angles in radians.
+//! - Constants: CODATA 2018 (see [`consts`]), rounded once to the working precision.
+//!
+//! # Errors and edges
+//! No function panics on any input. Fallible operations return `Result<_, Error>`; each function
+//! documents what it returns at the edges of its domain. Nothing returns NaN silently.
+//!
+//! # Features
+//! | feature | adds |
+//! | --- | --- |
+//! | `defmt` | `defmt::Format` for every public type (defmt 1) |
+//! | `approx` | `AbsDiffEq`, `RelativeEq`, `UlpsEq` for vectors and tensors (approx 0.5) |
+//! | `micromath` | a separately named fast `f32` path; never changes an existing result |
+//!
+//! Features only add: Cargo unifies them across a dependency graph, so a feature that changed a
+//! result would change it for every crate of a firmware. No feature pulls in `std`.
+//!
+//! # MSRV
+//! The minimum supported Rust version is the `rust-version` of `Cargo.toml`; it is raised only in
+//! a minor release, never in a patch release.
+//!
+//! # Caution
+//! fourforce computes physics and is not a safety system. Beams can injure people and damage
+//! equipment. Personnel protection and machine interlocks must be independent, certified systems
+//! built to local regulations and licensed radiation-safety practice. Validate every set point on
+//! your own machine.
 #![cfg_attr(not(test), no_std)]
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]
