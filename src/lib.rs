@@ -68,6 +68,12 @@ mod species;
 mod vector;
 
 // --- foundation: spacetime, field tensor, four-force, boosts ---
+mod compensated;
+mod field;
+mod force;
+mod spacetime;
+pub use field::{CovariantFieldTensor, FieldTensor};
+pub use spacetime::{Covector, FourVector, Metric};
 
 // --- kinematics: species, state of motion, beam-line quantities ---
 
