@@ -76,6 +76,9 @@ pub use field::{CovariantFieldTensor, FieldTensor};
 pub use spacetime::{Covector, FourVector, Metric};
 
 // --- kinematics: species, state of motion, beam-line quantities ---
+pub mod kinematics;
+pub use kinematics::Motion;
+pub mod optics;
 
 // --- motion: pushers, beam line, checks, steering ---
 
