@@ -81,6 +81,7 @@ pub use kinematics::Motion;
 pub mod optics;
 
 // --- motion: pushers, beam line, checks, steering ---
+pub mod push;
 
 // --- integrations and fast paths ---
 

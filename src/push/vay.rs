@@ -1,0 +1,90 @@
+//! The Vay pusher: an implicit average of the magnetic force that keeps the `E × B` drift exact.
+//!
+//! J.-L. Vay, "Simulation of beams or plasmas crossing at relativistic velocity", Physics of
+//! Plasmas 15, 056701 (2008).
+//!
+//! The update is `uⁿ⁺¹ = uⁿ + 2ε + (uⁿ/γⁿ + uⁿ⁺¹/γⁿ⁺¹) × τ` with `ε = (Q c Δt / 2mc²) E` and
+//! `τ = (Q c² Δt / 2mc²) B`: the velocity in the magnetic force is the mean of the velocities at
+//! both ends of the step. Derivation of the solution (ours): put `u' = uⁿ + 2ε + (uⁿ/γⁿ) × τ`,
+//! so that `u = u' + u × t` with `u = uⁿ⁺¹` and `t = τ/γⁿ⁺¹`. Squaring `u - u × t = u'` and using
+//! `u · τ = u' · τ = u*` gives `γ⁴ - σγ² - (|τ|² + u*²) = 0`, `σ = 1 + |u'|² - |τ|²`, whose positive
+//! root is `γⁿ⁺¹`. Then
+//!
+//! ```text
+//! uⁿ⁺¹ = (u' + (u'·t) t + u' × t) / (1 + |t|²)
+//!      = u' + ((u'·t) t + u' × t - |t|² u') / (1 + |t|²)
+//! ```
+//!
+//! The second form is the one computed: in a uniform field the rounding of `1/(1 + |t|²)` is the
+//! same at every step, and in the first form it would scale `|u|` by the same factor each time
+//! (a drift of 2.7e-5 over 2000 steps in `f32`, measured).
+//!
+//! If `E + vⁿ × B = 0` (the particle moves at the `E × B` velocity) then `u' = uⁿ + ε` and
+//! `uⁿ⁺¹ = uⁿ` solves the update exactly: the drift is exact at any step and any γ, where Boris
+//! drifts wrongly. With `E = 0` it gives the same momenta as Boris. The scheme is not
+//! volume-preserving (A. V. Higuera, J. R. Cary, Physics of Plasmas 24, 052104 (2017)).
+//!
+//! Cost: 2 square roots (the quartic's root and `γⁿ⁺¹`, which is also the drift's `γ`; `γⁿ`
+//! comes cached in the [`Particle`](super::Particle)), 4 divisions (with the drift's `1/γ`).
+
+use super::{LocalField, Pusher, StepFactors, implicit_gamma_squared};
+use crate::{Real, ThreeVector};
+
+/// The Vay pusher (Vay 2008), with its step factors precomputed.
+///
+/// # Examples
+/// ```
+/// use fourforce::{Species, ThreeVector};
+/// use fourforce::push::{Particle, Pusher, UniformField, Vay};
+/// // A proton moving at exactly the E × B velocity keeps its momentum (Vay 2008).
+/// let beta = 0.6_f64;
+/// let fields = UniformField::try_new(
+///     ThreeVector::new(0.0, beta * 299_792_458.0, 0.0), // E = βcB along y (V/m)
+///     ThreeVector::new(0.0, 0.0, 1.0),                   // B = 1 T along z
+/// )?;
+/// let pusher = Vay::try_new(Species::PROTON, 1.0e-8)?;
+/// let mut p = Particle::try_new(ThreeVector::ZERO, ThreeVector::new(0.75, 0.0, 0.0), 0.0)?;
+/// pusher.try_run(&mut p, &fields, 100)?;
+/// assert!((p.momentum() - ThreeVector::new(0.75, 0.0, 0.0)).norm() < 1e-13);
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Vay<T: Real> {
+    factors: StepFactors<T>,
+}
+
+impl<T: Real> Pusher<T> for Vay<T> {
+    #[inline]
+    fn from_factors(factors: StepFactors<T>) -> Self {
+        Self { factors }
+    }
+
+    #[inline]
+    fn factors(&self) -> &StepFactors<T> {
+        &self.factors
+    }
+
+    #[inline]
+    fn push_momentum(
+        &self,
+        momentum: ThreeVector<T>,
+        gamma: T,
+        field: &LocalField<T>,
+    ) -> (ThreeVector<T>, T) {
+        let eps = field.electric * self.factors.kick;
+        let tau = field.magnetic * self.factors.rotation;
+        let u_prime = momentum + eps + eps + (momentum * (T::ONE / gamma)).cross(tau);
+        let tau_sq = tau.norm_squared();
+        let u_star = u_prime.dot(tau);
+        let sigma = T::ONE + u_prime.norm_squared() - tau_sq;
+        let gamma_new = implicit_gamma_squared(sigma, tau_sq + u_star * u_star).sqrt();
+        let t = tau * (T::ONE / gamma_new);
+        let t_sq = t.norm_squared();
+        // (u' + (u'·t) t + u' × t) / (1 + t²), written as u' plus a small correction so that the
+        // rounding of 1/(1 + t²), the same at every step in a uniform field, does not bias |u|.
+        let correction = t * u_prime.dot(t) + u_prime.cross(t) - u_prime * t_sq;
+        let u_new = u_prime + correction * (T::ONE / (T::ONE + t_sq));
+        (u_new, gamma_new)
+    }
+}
