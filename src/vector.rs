@@ -164,6 +164,9 @@ impl<T: Real> ThreeVector<T> {
 
     /// The unit vector along `self`.
     ///
+    /// Scaled by the largest component first, so every finite non-zero vector, subnormal or near
+    /// `MAX`, gives a unit vector of length 1 within a few ulps.
+    ///
     /// # Errors
     /// [`Error::ZeroDirection`] for the zero vector, [`Error::NonFinite`] for a non-finite one.
     ///
@@ -179,11 +182,14 @@ impl<T: Real> ThreeVector<T> {
         if !self.is_finite() {
             return Err(Error::NonFinite);
         }
-        let n = self.norm();
-        if n == T::ZERO {
+        let s = self.x.abs().max(self.y.abs()).max(self.z.abs());
+        if s == T::ZERO {
             return Err(Error::ZeroDirection);
         }
-        Ok(self / n)
+        // Scale first: the largest component becomes ±1, so the length of `r` lies in [1, √3] and
+        // neither overflows (huge vectors) nor loses bits (subnormal ones).
+        let r = self / s;
+        Ok(r / r.norm_squared().sqrt())
     }
 
     /// Multiplies every component by `k`.

@@ -1,0 +1,69 @@
+//! Regression tests for the bugs the reliability checks (fuzzing, exhaustive sweeps, mutation
+//! testing) found, each with the input that exposed it. Written once for f32 and f64.
+#![allow(clippy::float_cmp)]
+
+use fourforce::{Error, ThreeVector};
+
+macro_rules! regressions {
+    ($t:ident) => {
+        mod $t {
+            use super::*;
+
+            fn squared_length(u: ThreeVector<$t>) -> $t {
+                u.x * u.x + u.y * u.y + u.z * u.z
+            }
+
+            /// Found by the `three_vector` fuzz target: a vector of subnormal components lost
+            /// its low bits in `self / |self|` (f32 input (6.816e-42, 1.4e-44, 0) gave a "unit"
+            /// vector of squared length 1.0000042).
+            #[test]
+            fn unit_of_a_subnormal_vector_has_length_one() {
+                let tiny = <$t>::MIN_POSITIVE / 1024.0 * 4864.0 / 1024.0;
+                let v = ThreeVector::new(tiny, <$t>::from_bits(10), 0.0);
+                let u = v.try_unit().unwrap();
+                assert!(
+                    (squared_length(u) - 1.0).abs() <= 4.0 * <$t>::EPSILON,
+                    "{u:?}"
+                );
+                let w = ThreeVector::new(<$t>::from_bits(1), <$t>::from_bits(1), 0.0);
+                let u = w.try_unit().unwrap();
+                assert!(
+                    (u.x - core::$t::consts::FRAC_1_SQRT_2).abs() <= <$t>::EPSILON,
+                    "{u:?}"
+                );
+            }
+
+            /// Found by reading `try_unit` for the fuzz target: a finite vector whose length
+            /// overflows (every component MAX) gave `Ok` of the zero vector.
+            #[test]
+            fn unit_of_a_huge_vector_is_not_zero() {
+                let m = <$t>::MAX;
+                let u = ThreeVector::new(m, m, m).try_unit().unwrap();
+                assert!(
+                    (squared_length(u) - 1.0).abs() <= 4.0 * <$t>::EPSILON,
+                    "{u:?}"
+                );
+                let u = ThreeVector::new(-m, 0.0, m).try_unit().unwrap();
+                assert!(
+                    (u.x + core::$t::consts::FRAC_1_SQRT_2).abs() <= <$t>::EPSILON,
+                    "{u:?}"
+                );
+            }
+
+            #[test]
+            fn unit_still_refuses_zero_and_non_finite() {
+                assert_eq!(
+                    ThreeVector::<$t>::new(0.0, -0.0, 0.0).try_unit(),
+                    Err(Error::ZeroDirection)
+                );
+                assert_eq!(
+                    ThreeVector::<$t>::new(<$t>::NAN, 1.0, 0.0).try_unit(),
+                    Err(Error::NonFinite)
+                );
+            }
+        }
+    };
+}
+
+regressions!(f32);
+regressions!(f64);
