@@ -1,0 +1,62 @@
+//! Sharper tests written to kill the mutants that cargo-mutants (`ci/mutants`) found surviving:
+//! each test pins a result that a wrong operator or a constant return would change. Written once
+//! for f32 and f64; the values are exact in both precisions (small integers and powers of two).
+#![allow(clippy::float_cmp)]
+
+use fourforce::{Species, ThreeVector};
+
+macro_rules! sharper {
+    ($t:ident) => {
+        mod $t {
+            use super::*;
+
+            fn v(x: $t, y: $t, z: $t) -> ThreeVector<$t> {
+                ThreeVector::new(x, y, z)
+            }
+
+            #[test]
+            fn vector_operators_give_exact_componentwise_results() {
+                let a = v(1.0, -2.0, 4.0);
+                let b = v(8.0, 16.0, -0.5);
+                assert_eq!(a + b, v(9.0, 14.0, 3.5));
+                assert_eq!(a - b, v(-7.0, -18.0, 4.5));
+                assert_eq!(a * 3.0, v(3.0, -6.0, 12.0));
+                assert_eq!(a.scale(-0.5), v(-0.5, 1.0, -2.0));
+                assert_eq!(a / 2.0, v(0.5, -1.0, 2.0));
+                assert_eq!(-a, v(-1.0, 2.0, -4.0));
+                let mut c = a;
+                c += b;
+                assert_eq!(c, v(9.0, 14.0, 3.5));
+                c -= b;
+                assert_eq!(c, a);
+                c -= a;
+                assert_eq!(c, ThreeVector::ZERO);
+            }
+
+            #[test]
+            fn cross_product_of_general_vectors() {
+                // (1, 2, 3) × (4, 5, 6) = (-3, 6, -3), by the determinant rule.
+                assert_eq!(v(1.0, 2.0, 3.0).cross(v(4.0, 5.0, 6.0)), v(-3.0, 6.0, -3.0));
+                assert_eq!(v(1.0, 2.0, 3.0).dot(v(4.0, 5.0, 6.0)), 32.0);
+            }
+
+            #[test]
+            fn try_new_keeps_the_components() {
+                assert_eq!(
+                    ThreeVector::try_new(1.0 as $t, 2.0, 3.0),
+                    Ok(v(1.0, 2.0, 3.0))
+                );
+                assert_eq!(v(1.0, 2.0, 3.0).to_array(), [1.0, 2.0, 3.0]);
+            }
+
+            #[test]
+            fn charge_over_rest_energy_is_a_quotient() {
+                let s = Species::<$t>::try_new(4.0, -2.0).unwrap();
+                assert_eq!(s.charge_over_rest_energy(), -0.5);
+            }
+        }
+    };
+}
+
+sharper!(f32);
+sharper!(f64);
