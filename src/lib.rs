@@ -68,10 +68,12 @@ mod species;
 mod vector;
 
 // --- foundation: spacetime, field tensor, four-force, boosts ---
+mod boost;
 mod compensated;
 mod field;
 mod force;
 mod spacetime;
+pub use boost::{Boost, LorentzTransform};
 pub use field::{CovariantFieldTensor, FieldTensor};
 pub use spacetime::{Covector, FourVector, Metric};
 
