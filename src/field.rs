@@ -318,8 +318,8 @@ impl<T: Real> FieldTensor<T> {
     ///
     /// For a four-velocity in units of c, `u = γ(1, β)`, this is `γ(E·β, E + β × cB)`, the
     /// four-force per unit charge in eV/m (see [`four_force`](Self::four_force)).
-    /// Accuracy: each component within 1.6 eps × `(|E| + |cB|) · max|u^μ|` (measured bound,
-    /// see the tests).
+    /// Accuracy (measured, `f32`, 20 000 random cases up to γ = 10⁴): each component within
+    /// 1.5 eps × `(u⁰|E| + |u||cB|)`; a component may cancel far below that scale.
     ///
     /// # Examples
     /// ```

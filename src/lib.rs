@@ -68,6 +68,8 @@ mod species;
 mod vector;
 
 // --- foundation: spacetime, field tensor, four-force, boosts ---
+#[cfg(feature = "approx")]
+mod approx_eq;
 mod boost;
 mod compensated;
 mod field;
