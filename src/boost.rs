@@ -639,7 +639,8 @@ impl<T: Real> LorentzTransform<T> {
 
     /// The rotation `R = Λ·B⁻¹` of the decomposition `Λ = R·B` (see
     /// [`boost_part`](Self::boost_part)); for two non-collinear boosts, the Thomas–Wigner
-    /// rotation.
+    /// rotation. Its entries are formed by a product that cancels from about `(Λ⁰₀)²` down to 1,
+    /// so they carry an absolute error of a few eps × `(Λ⁰₀)²`.
     ///
     /// # Errors
     /// As [`boost_part`](Self::boost_part).
