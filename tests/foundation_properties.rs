@@ -11,7 +11,7 @@
 mod foundation_common;
 use foundation_common::*;
 
-use fourforce::{Boost, FieldTensor, FourVector, Real, ThreeVector};
+use fourforce::{Boost, FieldTensor, FourVector, Real};
 use proptest::prelude::*;
 
 const C: f64 = 299_792_458.0;
@@ -193,6 +193,7 @@ macro_rules! properties {
             mod with_approx {
                 use super::*;
                 use approx::{assert_relative_eq, relative_eq};
+                use fourforce::ThreeVector;
 
                 proptest! {
                     #![proptest_config(ProptestConfig::with_cases(256))]
