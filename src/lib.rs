@@ -88,6 +88,9 @@ pub mod optics;
 pub mod push;
 
 // --- integrations and fast paths ---
+#[cfg(feature = "micromath")]
+#[cfg_attr(docsrs, doc(cfg(feature = "micromath")))]
+pub mod fast;
 
 pub use error::Error;
 pub use real::{MaybeFormat, Real, finite};

@@ -1,0 +1,87 @@
+//! Feature `defmt`: every public type of the crate implements `defmt::Format`.
+//!
+//! Two halves. `every_listed_type_is_format` does not compile if a listed type lacks
+//! `defmt::Format`. `every_public_type_is_listed` reads the sources and fails when a `pub struct`
+//! or `pub enum` is missing from the list, so a new type cannot slip past the first half.
+#![cfg(feature = "defmt")]
+
+/// Requires `defmt::Format` at compile time.
+const fn format<T: defmt::Format + ?Sized>() {}
+
+/// Lists each public type once (by its name) and requires `defmt::Format` of it, in both
+/// precisions where it is generic.
+macro_rules! public_types {
+    ($($name:ident => [$($ty:ty),+ $(,)?]),+ $(,)?) => {
+        const LISTED: &[&str] = &[$(stringify!($name)),+];
+        #[test]
+        fn every_listed_type_is_format() {
+            $($(format::<$ty>();)+)+
+            // heapless's own types in our API: its `defmt-03` feature implements defmt 0.3's
+            // Format, and defmt 0.3.100+ re-exports defmt 1, so the trait is the same.
+            format::<heapless::Vec<u8, 4>>();
+        }
+    };
+}
+
+public_types! {
+    Error => [fourforce::Error],
+    Species => [fourforce::Species<f32>, fourforce::Species<f64>],
+    ThreeVector => [fourforce::ThreeVector<f32>, fourforce::ThreeVector<f64>],
+}
+
+/// `pub` types that are not reachable from outside the crate (none so far).
+const NOT_PUBLIC: &[&str] = &[];
+
+/// Names of the `pub struct` / `pub enum` items in a Rust source (not `pub(crate)` ones).
+fn public_type_names(source: &str) -> Vec<String> {
+    source
+        .lines()
+        .map(str::trim_start)
+        .filter_map(|l| l.strip_prefix("pub struct ").or_else(|| l.strip_prefix("pub enum ")))
+        .map(|rest| {
+            rest.chars()
+                .take_while(|c| c.is_alphanumeric() || *c == '_')
+                .collect()
+        })
+        .collect()
+}
+
+fn rust_files(dir: &std::path::Path, out: &mut Vec<std::path::PathBuf>) {
+    for entry in std::fs::read_dir(dir).expect("src/ is readable") {
+        let path = entry.expect("directory entry").path();
+        if path.is_dir() {
+            rust_files(&path, out);
+        } else if path.extension().is_some_and(|e| e == "rs") {
+            out.push(path);
+        }
+    }
+}
+
+#[test]
+fn every_public_type_is_listed() {
+    let mut files = Vec::new();
+    rust_files(&std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("src"), &mut files);
+    let mut missing = Vec::new();
+    let mut found = 0;
+    for file in &files {
+        let source = std::fs::read_to_string(file).expect("source is readable");
+        for name in public_type_names(&source) {
+            found += 1;
+            if !LISTED.contains(&name.as_str()) && !NOT_PUBLIC.contains(&name.as_str()) {
+                missing.push(format!("{name} ({})", file.display()));
+            }
+        }
+    }
+    assert!(found >= 3, "the source scan found only {found} public types");
+    assert!(
+        missing.is_empty(),
+        "public types not listed in tests/firmware_defmt.rs (add them to `public_types!` with \
+         a defmt::Format derive): {missing:?}"
+    );
+}
+
+#[test]
+fn the_scan_finds_structs_and_enums_but_not_crate_private_ones() {
+    let src = "pub struct A<T> {}\n  pub enum B {}\npub(crate) struct C;\nstruct D;\npub struct E;";
+    assert_eq!(public_type_names(src), ["A", "B", "E"]);
+}
