@@ -3,7 +3,9 @@
 //!
 //! `cargo run --release --example fast_accuracy --features micromath`
 //!
-//! Prints one Markdown table row per quantity (worst relative error in eps = 2⁻²³) and exits
+//! Prints one line `accuracy <quantity> <libm worst eps> <micromath worst eps>` per quantity
+//! (worst relative error in eps = 2⁻²³; ci/firmware joins them with the instruction counts of
+//! the chip into the README table) and exits
 //! non-zero if the fast path exceeds its documented bound (src/fast.rs) or the exact path exceeds
 //! 8 eps. The reference is `Motion<f64>` built from the same `f32` inputs widened exactly (its own
 //! error, about 1e-16, is 1e-9 eps of f32).
@@ -49,22 +51,20 @@ fn main() -> ExitCode {
         ("beta", |m| Ok(m.beta()), |m| Ok(m.beta()), fast::beta),
         ("pc", |m| Ok(m.momentum()), |m| Ok(m.momentum()), fast::momentum),
         (
-            "B rho",
+            "brho",
             Motion::magnetic_rigidity,
             Motion::magnetic_rigidity,
             fast::magnetic_rigidity,
         ),
         ("v", |m| Ok(m.speed()), |m| Ok(m.speed()), fast::speed),
         (
-            "flight time (1.5 m)",
+            "tof",
             |m| Ok(m.flight_time(LENGTH_M)),
             |m| Ok(m.flight_time(f64::from(LENGTH_M))),
             |s, t| fast::flight_time(s, t, LENGTH_M),
         ),
     ];
     let mut ok = true;
-    println!("| quantity | libm (Motion) worst eps | micromath (fast) worst eps |");
-    println!("| --- | --- | --- |");
 
     // sqrt itself: every 3rd significand of [1, 4) (the pattern repeats with powers of four),
     // and decades from 1e-30 to 1e30.
@@ -78,7 +78,7 @@ fn main() -> ExitCode {
         exact = exact.max(eps(Real::sqrt(x), want));
         approx = approx.max(eps(fast::sqrt(x), want));
     }
-    println!("| sqrt | {exact:.2} | {approx:.0} |");
+    println!("accuracy sqrt {exact:.2} {approx:.0}");
     ok &= exact <= 0.5 && approx <= FAST_BOUND_EPS;
 
     // gamma needs no root: the fast path has no function of its own.
@@ -95,7 +95,8 @@ fn main() -> ExitCode {
             }
         }
     }
-    println!("| gamma | {gamma:.2} | (no root: same as libm) |");
+    // The fast path has no gamma of its own (no root in it): "-".
+    println!("accuracy gamma {gamma:.2} -");
     ok &= gamma <= EXACT_BOUND_EPS;
 
     for (name, exact_of, reference_of, fast_of) in quantities {
@@ -124,7 +125,7 @@ fn main() -> ExitCode {
                 }
             }
         }
-        println!("| {name} | {exact:.2} | {approx:.0} |");
+        println!("accuracy {name} {exact:.2} {approx:.0}");
         ok &= exact <= EXACT_BOUND_EPS && approx <= FAST_BOUND_EPS;
     }
     if ok {

@@ -43,36 +43,6 @@ impl Out {
         self
     }
 
-    /// Writes a signed integer in decimal.
-    pub fn i32(&mut self, n: i32) -> &mut Self {
-        if n < 0 {
-            self.str("-");
-        }
-        self.u32(n.unsigned_abs())
-    }
-
-    /// Writes `x` in fixed point with `decimals` digits after the point (|x| < 4e9 / 10^decimals).
-    pub fn fixed(&mut self, x: f32, decimals: u32) -> &mut Self {
-        let scale = 10u32.pow(decimals);
-        let neg = x < 0.0;
-        let scaled = (if neg { -x } else { x }) * scale as f32 + 0.5;
-        let n = scaled as u32; // saturating conversion
-        if neg {
-            self.str("-");
-        }
-        self.u32(n / scale);
-        if decimals > 0 {
-            self.str(".");
-            let frac = n % scale;
-            let mut d = scale / 10;
-            while d > 0 {
-                self.u32((frac / d) % 10);
-                d /= 10;
-            }
-        }
-        self
-    }
-
     /// Ends the line.
     pub fn nl(&mut self) -> &mut Self {
         self.str("\n")
