@@ -67,8 +67,7 @@ fn main() -> ExitCode {
                         cycles += 1;
                         for (i, (x, y)) in a.outputs().into_iter().zip(b.outputs()).enumerate() {
                             let d = deviation_eps(f64::from(x), y);
-                            if let (Some(w), Some(at)) = (worst.get_mut(i), worst_at.get_mut(i))
-                            {
+                            if let (Some(w), Some(at)) = (worst.get_mut(i), worst_at.get_mut(i)) {
                                 if d > *w {
                                     *w = d;
                                     *at = (name, t_ev);
@@ -89,7 +88,9 @@ fn main() -> ExitCode {
     println!("| output | worst f32 deviation (eps) | at | bound (eps) |");
     println!("| --- | --- | --- | --- |");
     let mut ok = mismatches == 0;
-    for (((name, w), (sp, t)), bound) in OUTPUT_NAMES.iter().zip(worst).zip(worst_at).zip(BOUNDS_EPS) {
+    for (((name, w), (sp, t)), bound) in
+        OUTPUT_NAMES.iter().zip(worst).zip(worst_at).zip(BOUNDS_EPS)
+    {
         println!("| {name} | {w} | {sp} {t:.3e} eV | {bound} |");
         ok &= w <= bound;
     }

@@ -49,7 +49,12 @@ type Quantity = (
 fn main() -> ExitCode {
     let quantities: [Quantity; 5] = [
         ("beta", |m| Ok(m.beta()), |m| Ok(m.beta()), fast::beta),
-        ("pc", |m| Ok(m.momentum()), |m| Ok(m.momentum()), fast::momentum),
+        (
+            "pc",
+            |m| Ok(m.momentum()),
+            |m| Ok(m.momentum()),
+            fast::momentum,
+        ),
         (
             "brho",
             Motion::magnetic_rigidity,

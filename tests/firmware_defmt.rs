@@ -27,6 +27,25 @@ public_types! {
     Error => [fourforce::Error],
     Species => [fourforce::Species<f32>, fourforce::Species<f64>],
     ThreeVector => [fourforce::ThreeVector<f32>, fourforce::ThreeVector<f64>],
+    FourVector => [fourforce::FourVector<f32>, fourforce::FourVector<f64>],
+    Covector => [fourforce::Covector<f32>, fourforce::Covector<f64>],
+    Metric => [fourforce::Metric],
+    FieldTensor => [fourforce::FieldTensor<f32>, fourforce::FieldTensor<f64>],
+    CovariantFieldTensor => [
+        fourforce::CovariantFieldTensor<f32>,
+        fourforce::CovariantFieldTensor<f64>,
+    ],
+    Motion => [fourforce::Motion<f32>, fourforce::Motion<f64>],
+    Particle => [fourforce::push::Particle<f32>, fourforce::push::Particle<f64>],
+    StepFactors => [fourforce::push::StepFactors<f32>, fourforce::push::StepFactors<f64>],
+    LocalField => [fourforce::push::LocalField<f32>, fourforce::push::LocalField<f64>],
+    UniformField => [fourforce::push::UniformField<f32>, fourforce::push::UniformField<f64>],
+    SumOfFields => [
+        fourforce::push::SumOfFields<fourforce::push::UniformField<f32>, fourforce::push::LocalField<f32>>,
+    ],
+    Boris => [fourforce::push::Boris<f32>, fourforce::push::Boris<f64>],
+    Vay => [fourforce::push::Vay<f32>, fourforce::push::Vay<f64>],
+    HigueraCary => [fourforce::push::HigueraCary<f32>, fourforce::push::HigueraCary<f64>],
 }
 
 /// `pub` types that are not reachable from outside the crate (none so far).
@@ -37,7 +56,10 @@ fn public_type_names(source: &str) -> Vec<String> {
     source
         .lines()
         .map(str::trim_start)
-        .filter_map(|l| l.strip_prefix("pub struct ").or_else(|| l.strip_prefix("pub enum ")))
+        .filter_map(|l| {
+            l.strip_prefix("pub struct ")
+                .or_else(|| l.strip_prefix("pub enum "))
+        })
         .map(|rest| {
             rest.chars()
                 .take_while(|c| c.is_alphanumeric() || *c == '_')
@@ -60,7 +82,10 @@ fn rust_files(dir: &std::path::Path, out: &mut Vec<std::path::PathBuf>) {
 #[test]
 fn every_public_type_is_listed() {
     let mut files = Vec::new();
-    rust_files(&std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("src"), &mut files);
+    rust_files(
+        &std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("src"),
+        &mut files,
+    );
     let mut missing = Vec::new();
     let mut found = 0;
     for file in &files {
@@ -72,7 +97,10 @@ fn every_public_type_is_listed() {
             }
         }
     }
-    assert!(found >= 3, "the source scan found only {found} public types");
+    assert!(
+        found >= 3,
+        "the source scan found only {found} public types"
+    );
     assert!(
         missing.is_empty(),
         "public types not listed in tests/firmware_defmt.rs (add them to `public_types!` with \

@@ -49,7 +49,10 @@ fn sqrt_is_high_by_at_most_the_bound_over_every_significand() {
         let x = f32::from_bits(bits);
         let e = rel(fast::sqrt(x), f64::from(x).sqrt());
         // High, apart from the last rounding of the Newton step near exact roots.
-        assert!(e >= -f64::from(f32::EPSILON), "sqrt({x}) below the root by {e}");
+        assert!(
+            e >= -f64::from(f32::EPSILON),
+            "sqrt({x}) below the root by {e}"
+        );
         worst = worst.max(e);
     }
     assert!(worst <= BOUND, "worst {worst}");
@@ -101,7 +104,10 @@ fn kinematics_within_the_documented_bounds_over_species_and_energies() {
             assert!(fast::beta(s, t32).unwrap() <= 1.0);
         }
     }
-    for (name, w) in ["pc", "beta", "v", "B rho", "flight time"].iter().zip(worst) {
+    for (name, w) in ["pc", "beta", "v", "B rho", "flight time"]
+        .iter()
+        .zip(worst)
+    {
         assert!(w <= BOUND, "{name}: worst {w}");
     }
 }
@@ -118,11 +124,20 @@ fn errors_at_the_edges() {
     assert_eq!(fast::beta(p, f32::NAN), Err(Error::NonFinite));
     assert_eq!(fast::momentum(p, f32::INFINITY), Err(Error::NonFinite));
     assert_eq!(fast::momentum(p, 1.0e30), Err(Error::Overflow));
-    assert_eq!(fast::flight_time(p, 1.0e6, 0.0), Err(Error::NonPositiveLength));
+    assert_eq!(
+        fast::flight_time(p, 1.0e6, 0.0),
+        Err(Error::NonPositiveLength)
+    );
     assert_eq!(fast::flight_time(p, 1.0e6, f32::NAN), Err(Error::NonFinite));
     let neutral = Species::new(939.565_4e6_f32, 0.0);
-    assert_eq!(fast::magnetic_rigidity(neutral, 1.0e6), Err(Error::ZeroCharge));
-    assert_eq!(fast::beta(Species::new(0.0, 1.0), 1.0e6), Err(Error::NonPositiveMass));
+    assert_eq!(
+        fast::magnetic_rigidity(neutral, 1.0e6),
+        Err(Error::ZeroCharge)
+    );
+    assert_eq!(
+        fast::beta(Species::new(0.0, 1.0), 1.0e6),
+        Err(Error::NonPositiveMass)
+    );
     // Far above the rest energy β rounds to 1 and the flight time to light's, never below it.
     let e = Species::<f32>::ELECTRON;
     assert_eq!(fast::beta(e, 1.0e15), Ok(1.0));

@@ -82,13 +82,25 @@ impl Bench {
     /// (the plugin numbers intervals from 1 in program order). Inputs should go through
     /// `black_box` inside `f`, or the optimiser may compute them outside the interval.
     #[inline(always)]
-    pub fn measure<R>(&mut self, out: &mut Out, name: &str, calls: u32, f: impl FnOnce() -> R) -> R {
+    pub fn measure<R>(
+        &mut self,
+        out: &mut Out,
+        name: &str,
+        calls: u32,
+        f: impl FnOnce() -> R,
+    ) -> R {
         self.intervals += 1;
         let id = self.intervals;
         bench_start(id);
         let r = black_box(f());
         bench_stop(id);
-        out.str("bench ").u32(id).str(" ").str(name).str(" ").u32(calls).nl();
+        out.str("bench ")
+            .u32(id)
+            .str(" ")
+            .str(name)
+            .str(" ")
+            .u32(calls)
+            .nl();
         r
     }
 }

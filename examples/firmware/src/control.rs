@@ -61,10 +61,7 @@ impl<T: Real> Machine<T> {
     pub fn to<U: Real>(&self) -> Machine<U> {
         let c = |x: T| U::from_f64(x.to_f64());
         Machine {
-            species: Species::new(
-                c(self.species.rest_energy()),
-                c(self.species.charge()),
-            ),
+            species: Species::new(c(self.species.rest_energy()), c(self.species.charge())),
             flight_base_m: c(self.flight_base_m),
             corrector_length_m: c(self.corrector_length_m),
             monitor_distance_m: c(self.monitor_distance_m),

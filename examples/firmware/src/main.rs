@@ -66,8 +66,15 @@ fn main() -> ! {
         }
     });
 
-    // One Boris step through the corrector, repeated.
     let dt = machine.corrector_length_m / nominal.speed();
+    // Building the pusher for a step (once per cycle in `control::cycle`).
+    bench.measure(&mut out, "pusher_new", CALLS, || {
+        for _ in 0..CALLS {
+            black_box(Boris::try_new(black_box(machine.species), black_box(dt)).is_ok());
+        }
+    });
+
+    // One Boris step through the corrector, repeated.
     let (Ok(pusher), Ok(mut particle)) = (
         Boris::try_new(machine.species, dt),
         Particle::try_new(fourforce::ThreeVector::ZERO, u.space, 0.0),
@@ -95,8 +102,11 @@ fn main() -> ! {
     for case in &CASES {
         match (control::cycle(&machine, case.reading), case.expected) {
             (Ok(got), Ok(want)) => {
-                for (((w, got), want), bound) in
-                    worst.iter_mut().zip(got.outputs()).zip(want).zip(BOUNDS_EPS)
+                for (((w, got), want), bound) in worst
+                    .iter_mut()
+                    .zip(got.outputs())
+                    .zip(want)
+                    .zip(BOUNDS_EPS)
                 {
                     let d = control::deviation_eps(got, want);
                     *w = (*w).max(d);
@@ -109,9 +119,17 @@ fn main() -> ! {
             _ => failures += 1,
         }
     }
-    out.str("cycles ").u32(CALLS).str(", worst deviation from f64 in eps (bound):");
+    out.str("cycles ")
+        .u32(CALLS)
+        .str(", worst deviation from f64 in eps (bound):");
     for ((name, w), bound) in OUTPUT_NAMES.iter().zip(worst).zip(BOUNDS_EPS) {
-        out.str(" ").str(name).str("=").u32(w).str(" (").u32(bound).str(")");
+        out.str(" ")
+            .str(name)
+            .str("=")
+            .u32(w)
+            .str(" (")
+            .u32(bound)
+            .str(")");
     }
     out.nl();
     out.str("stack ").u32(board::stack_high_water()).nl();

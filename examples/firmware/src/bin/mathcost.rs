@@ -44,6 +44,8 @@ fn main() -> ! {
     b.measure(&mut out, "markers", 1, || ());
     let motion = |s, t| Motion::try_from_kinetic_energy(s, t);
     let mut sum = 0.0f32;
+    // The sweep itself (loop, black_box, sum) around an identity: included in every count below.
+    sum += b.measure(&mut out, "overhead", CALLS, || sweep(|_, t| t));
     sum += b.measure(&mut out, "libm_sqrt", CALLS, || sweep(|_, t| Real::sqrt(t)));
     sum += b.measure(&mut out, "fast_sqrt", CALLS, || sweep(|_, t| fast::sqrt(t)));
     sum += b.measure(&mut out, "libm_gamma", CALLS, || {
@@ -52,11 +54,15 @@ fn main() -> ! {
     sum += b.measure(&mut out, "libm_beta", CALLS, || {
         sweep(|s, t| ok(motion(s, t).map(|m| m.beta())))
     });
-    sum += b.measure(&mut out, "fast_beta", CALLS, || sweep(|s, t| ok(fast::beta(s, t))));
+    sum += b.measure(&mut out, "fast_beta", CALLS, || {
+        sweep(|s, t| ok(fast::beta(s, t)))
+    });
     sum += b.measure(&mut out, "libm_pc", CALLS, || {
         sweep(|s, t| ok(motion(s, t).map(|m| m.momentum())))
     });
-    sum += b.measure(&mut out, "fast_pc", CALLS, || sweep(|s, t| ok(fast::momentum(s, t))));
+    sum += b.measure(&mut out, "fast_pc", CALLS, || {
+        sweep(|s, t| ok(fast::momentum(s, t)))
+    });
     sum += b.measure(&mut out, "libm_brho", CALLS, || {
         sweep(|s, t| ok(motion(s, t).and_then(|m| m.magnetic_rigidity())))
     });
@@ -66,7 +72,9 @@ fn main() -> ! {
     sum += b.measure(&mut out, "libm_v", CALLS, || {
         sweep(|s, t| ok(motion(s, t).map(|m| m.speed())))
     });
-    sum += b.measure(&mut out, "fast_v", CALLS, || sweep(|s, t| ok(fast::speed(s, t))));
+    sum += b.measure(&mut out, "fast_v", CALLS, || {
+        sweep(|s, t| ok(fast::speed(s, t)))
+    });
     sum += b.measure(&mut out, "libm_tof", CALLS, || {
         sweep(|s, t| ok(motion(s, t).map(|m| m.flight_time(LENGTH_M))))
     });
