@@ -35,6 +35,8 @@ public_types! {
         fourforce::CovariantFieldTensor<f32>,
         fourforce::CovariantFieldTensor<f64>,
     ],
+    Boost => [fourforce::Boost<f32>, fourforce::Boost<f64>],
+    LorentzTransform => [fourforce::LorentzTransform<f32>, fourforce::LorentzTransform<f64>],
     Motion => [fourforce::Motion<f32>, fourforce::Motion<f64>],
     Particle => [fourforce::push::Particle<f32>, fourforce::push::Particle<f64>],
     StepFactors => [fourforce::push::StepFactors<f32>, fourforce::push::StepFactors<f64>],
