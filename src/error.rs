@@ -59,6 +59,9 @@ pub enum Error {
     /// A limit, bound or window was given with its lower end above its upper end.
     InvalidRange,
     // (new variants: add below, one block per area, with a Display arm in the same order)
+    // --- motion ---
+    /// A feedback gain was outside the range where the loop converges (0 < g < 2).
+    GainOutOfRange,
 }
 
 impl fmt::Display for Error {
@@ -81,6 +84,7 @@ impl fmt::Display for Error {
             Error::OutOfBounds => "index is out of bounds",
             Error::Empty => "no values where at least one is needed",
             Error::InvalidRange => "lower bound is above upper bound",
+            Error::GainOutOfRange => "feedback gain is outside (0, 2)",
         })
     }
 }

@@ -85,7 +85,10 @@ pub use kinematics::Motion;
 pub mod optics;
 
 // --- motion: pushers, beam line, checks, steering ---
+pub mod beamline;
+pub mod check;
 pub mod push;
+pub mod steer;
 
 // --- integrations and fast paths ---
 #[cfg(feature = "micromath")]

@@ -306,8 +306,9 @@ impl<T: Real> StepFactors<T> {
         if crate::finite(dt)? <= T::ZERO {
             return Err(Error::NonPositiveLength);
         }
-        // c Δt with the exact two-part c (C_LO = 10 m/s in f32, 0 in f64).
-        let c_dt = T::C_HI.mul_add(dt, T::C_LO * dt);
+        // c Δt with the exact two-part c (C_LO = 10 m/s in f32, 0 in f64); no `mul_add`, which
+        // would go through soft double on a chip without a hardware FMA.
+        let c_dt = T::C_HI * dt + T::C_LO * dt;
         let kick = q / m * c_dt * T::HALF;
         let rotation = kick * T::SPEED_OF_LIGHT;
         if !(c_dt.is_finite() && kick.is_finite() && rotation.is_finite()) || c_dt == T::ZERO {
