@@ -1,0 +1,374 @@
+//! The beam line against analytic results and the pushers.
+//!
+//! Sources beside each check: shared/reference/published-checks.md §3 and §7.5 ([mp]: mpmath at
+//! 50 digits from CODATA 2018), DESIGN's thin-element relations (theta = integral B dl / B rho,
+//! sin theta = L / rho, offset rho (1 - cos theta): Jackson 3rd ed. §12.2, from memory), and a
+//! cross-check against the Boris pusher of this crate.
+#![allow(clippy::float_cmp)]
+
+use fourforce::beamline::{BeamLine, BeamState, Element, KickDirection};
+use fourforce::push::{Boris, LocalField, Particle, Pusher};
+use fourforce::{Error, Motion, Real, Species, ThreeVector};
+
+fn t<T: Real>(x: f64) -> T {
+    T::from_f64(x)
+}
+
+fn rel<T: Real>(a: T, b: f64) -> f64 {
+    (a.to_f64() / b - 1.0).abs()
+}
+
+fn eps<T: Real>() -> f64 {
+    T::EPSILON.to_f64()
+}
+
+// published-checks §3 [mp]
+const PROTON_250_MEV_BRHO: f64 = 2.4321284387255044;
+const PROTON_1_GEV_NS_PER_M: f64 = 3.8120493548822230;
+const ALPHA_5_MEV_ERHO: f64 = 4996650.9299730097;
+const ELECTRON_10_KEV_SPEED: f64 = 58455214.927781732;
+
+fn corrector_then_drift<T: Real>() {
+    let p = Motion::try_from_kinetic_energy(Species::<T>::PROTON, t(250e6)).unwrap();
+    let line = BeamLine::<T, 4>::try_from_elements(&[
+        Element::MagneticKick {
+            integrated_field_tm: t(2.0e-3),
+            direction: KickDirection::Horizontal,
+        },
+        Element::Drift { length_m: t(3.0) },
+    ])
+    .unwrap();
+    let end = line.try_transport(BeamState::on_axis(p)).unwrap();
+    // theta = integral B dl / B rho (DESIGN; Jackson §12.2 from memory), B rho from §3 [mp]
+    let theta = 2.0e-3 / PROTON_250_MEV_BRHO;
+    assert!(rel(end.x_slope(), theta) < 4.0 * eps::<T>());
+    assert!(rel(end.x(), 3.0 * theta) < 6.0 * eps::<T>());
+    assert_eq!(end.y(), T::ZERO);
+    // time over the drift: L sqrt(1 + theta^2) / (beta c)
+    let expected_time = 3.0 * (1.0 + theta * theta).sqrt() / p.speed().to_f64();
+    assert!(rel(end.time(), expected_time) < 8.0 * eps::<T>());
+}
+
+fn drift_time_matches_published<T: Real>() {
+    let p = Motion::try_from_kinetic_energy(Species::<T>::PROTON, t(1e9)).unwrap();
+    let mut line = BeamLine::<T, 16>::new();
+    for _ in 0..16 {
+        line.try_push(Element::Drift { length_m: t(0.625) })
+            .unwrap();
+    }
+    let end = line.try_transport(BeamState::on_axis(p)).unwrap();
+    // 10 m at 3.8120493548822230 ns/m (published-checks §3 [mp])
+    let e = rel(end.time(), 10.0 * PROTON_1_GEV_NS_PER_M * 1e-9);
+    assert!(e < 6.0 * eps::<T>(), "{e:e}");
+}
+
+fn rotated_kick_is_split<T: Real>() {
+    let p = Motion::try_from_kinetic_energy(Species::<T>::PROTON, t(250e6)).unwrap();
+    let phi = core::f64::consts::FRAC_PI_6;
+    let kick = Element::MagneticKick {
+        integrated_field_tm: t(1.0e-3),
+        direction: KickDirection::Angle(t(phi)),
+    };
+    let s = kick.try_apply(&BeamState::on_axis(p)).unwrap();
+    let theta = 1.0e-3 / PROTON_250_MEV_BRHO;
+    assert!(rel(s.x_slope(), theta * phi.cos()) < 6.0 * eps::<T>());
+    assert!(rel(s.y_slope(), theta * phi.sin()) < 6.0 * eps::<T>());
+    let v = Element::MagneticKick {
+        integrated_field_tm: t(1.0e-3),
+        direction: KickDirection::Vertical,
+    }
+    .try_apply(&BeamState::on_axis(p))
+    .unwrap();
+    assert_eq!(v.x_slope(), T::ZERO);
+    assert!(rel(v.y_slope(), theta) < 4.0 * eps::<T>());
+    // a negative charge goes the other way (sign convention of optics::kick_angle)
+    let e = Motion::try_from_kinetic_energy(Species::<T>::ELECTRON, t(1e6)).unwrap();
+    let s = kick.try_apply(&BeamState::on_axis(e)).unwrap();
+    assert!(s.x_slope() < T::ZERO);
+}
+
+fn electrostatic_kick_matches_rigidity<T: Real>() {
+    let a = Motion::try_from_kinetic_energy(Species::<T>::ALPHA, t(5e6)).unwrap();
+    let s = Element::ElectrostaticKick {
+        integrated_field_v: t(1.0e4),
+        direction: KickDirection::Horizontal,
+    }
+    .try_apply(&BeamState::on_axis(a))
+    .unwrap();
+    // theta = integral E dl / E rho, E rho from §3 [mp]
+    assert!(rel(s.x_slope(), 1.0e4 / ALPHA_5_MEV_ERHO) < 8.0 * eps::<T>());
+    assert_eq!(s.kinetic_energy(), t(5e6));
+}
+
+fn dipole_on_axis_matches_circle<T: Real>() {
+    let p = Motion::try_from_kinetic_energy(Species::<T>::PROTON, t(250e6)).unwrap();
+    let (b, l) = (0.5, 0.2);
+    let s = Element::HardEdgeDipole {
+        field_t: t(b),
+        length_m: t(l),
+    }
+    .try_apply(&BeamState::on_axis(p))
+    .unwrap();
+    // rho = B rho / B, sin theta = L / rho, offset rho (1 - cos theta) (DESIGN; Jackson §12.2)
+    let rho = PROTON_250_MEV_BRHO / b;
+    let theta = (l / rho).asin();
+    let offset = 2.0 * rho * (0.5 * theta).sin().powi(2); // rho (1 - cos theta), no cancellation
+    assert!(
+        rel(s.x_slope(), theta.tan()) < 8.0 * eps::<T>(),
+        "{:e}",
+        rel(s.x_slope(), theta.tan())
+    );
+    assert!(
+        rel(s.x(), offset) < 16.0 * eps::<T>(),
+        "{:e}",
+        rel(s.x(), offset)
+    );
+    let time = rho * theta / p.speed().to_f64();
+    assert!(
+        rel(s.time(), time) < 16.0 * eps::<T>(),
+        "{:e}",
+        rel(s.time(), time)
+    );
+}
+
+/// The hard-edge dipole of the beam line against the Boris pusher through the same field region,
+/// with an incoming horizontal and vertical slope (the vertical pitch shortens the horizontal
+/// radius by its cosine).
+#[test]
+fn dipole_with_slopes_matches_the_pusher() {
+    let species = Species::<f64>::PROTON;
+    let p = Motion::try_from_kinetic_energy(species, 10e6).unwrap();
+    let (b, l) = (0.8, 0.3);
+    let (x0, xs0, y0, ys0) = (2.0e-3, 30.0e-3, -1.0e-3, 50.0e-3);
+    let start = BeamState::try_new(p, x0, xs0, y0, ys0, 0.0).unwrap();
+    let out = Element::HardEdgeDipole {
+        field_t: b,
+        length_m: l,
+    }
+    .try_apply(&start)
+    .unwrap();
+    // pusher: s along z, x horizontal, y vertical. A positive field here bends a positive charge
+    // toward +x: B along -y (F = q v x B, v along +z).
+    let field = move |x: ThreeVector<f64>, _t: f64| {
+        let inside = x.z >= 0.0 && x.z < l;
+        LocalField::new(
+            ThreeVector::ZERO,
+            ThreeVector::new(0.0, if inside { -b } else { 0.0 }, 0.0),
+        )
+    };
+    let bg = p.beta_gamma();
+    let norm = (1.0 + xs0 * xs0 + ys0 * ys0).sqrt();
+    let u = ThreeVector::new(xs0, ys0, 1.0) * (bg / norm);
+    let steps = 200_000_u32;
+    let dt = p.flight_time(l) / f64::from(steps) * 1.05;
+    let pusher = Boris::try_new(species, dt).unwrap();
+    let mut q = Particle::try_new(ThreeVector::new(x0, y0, 0.0), u, 0.0).unwrap();
+    let mut prev = q;
+    while q.position().z < l {
+        prev = q;
+        pusher.try_step(&mut q, &field).unwrap();
+    }
+    // interpolate to z = L
+    let f = (l - prev.position().z) / (q.position().z - prev.position().z);
+    let at = |a: f64, c: f64| a + f * (c - a);
+    let x = at(prev.position().x, q.position().x);
+    let y = at(prev.position().y, q.position().y);
+    let time = at(prev.time(), q.time());
+    let um = q.momentum();
+    let (xs, ys) = (um.x / um.z, um.y / um.z);
+    let tol = 1e-5; // the pusher's step: c dt = 1.6e-6 m; field edge sampled per step
+    assert!(
+        (out.x() - x).abs() < tol * out.x().abs(),
+        "x {} vs {x}",
+        out.x()
+    );
+    assert!((out.y() - y).abs() < tol * 1e-2, "y {} vs {y}", out.y());
+    assert!(
+        (out.x_slope() - xs).abs() < tol * out.x_slope().abs(),
+        "x' {} vs {xs}",
+        out.x_slope()
+    );
+    assert!(
+        (out.y_slope() - ys).abs() < tol * ys.abs(),
+        "y' {} vs {ys}",
+        out.y_slope()
+    );
+    assert!(
+        (out.time() / time - 1.0).abs() < tol,
+        "t {} vs {time}",
+        out.time()
+    );
+}
+
+fn gap_gains_q_v_exactly<T: Real>() {
+    // published-checks §7.5: an electron from rest through 10 kV ends at 10 keV, v = 58455214.93
+    // m/s (§3 [mp]). A positive voltage accelerates positive charges: the electron needs -10 kV.
+    let e = Motion::try_from_kinetic_energy(Species::<T>::ELECTRON, T::ZERO).unwrap();
+    let s = Element::AcceleratingGap {
+        voltage_v: t(-10e3),
+    }
+    .try_apply(&BeamState::on_axis(e))
+    .unwrap();
+    assert_eq!(s.kinetic_energy(), t(10e3));
+    assert!(rel(s.motion().speed(), ELECTRON_10_KEV_SPEED) < 4.0 * eps::<T>());
+    // the transverse momentum is kept: x' p_s is invariant (thin gap, no transverse field)
+    let p = Motion::try_from_kinetic_energy(Species::<T>::PROTON, t(1e6)).unwrap();
+    let before = BeamState::try_new(p, T::ZERO, t(2e-3), T::ZERO, t(-1e-3), T::ZERO).unwrap();
+    let after = Element::AcceleratingGap { voltage_v: t(3e6) }
+        .try_apply(&before)
+        .unwrap();
+    let px = |s: &BeamState<T>| {
+        let (a, b) = (s.x_slope().to_f64(), s.y_slope().to_f64());
+        s.motion().momentum().to_f64() * a / (1.0 + a * a + b * b).sqrt()
+    };
+    assert!((px(&after) / px(&before) - 1.0).abs() < 8.0 * eps::<T>());
+    assert_eq!(after.kinetic_energy(), t(4e6));
+}
+
+fn small_gains_survive<T: Real>() {
+    // published-checks §6 "small energy gains vanish": f32 1e9 + 10 == 1e9. The state keeps the
+    // gains apart in a compensated pair: 1000 gaps of 10 eV on a 1 GeV proton add 10 keV.
+    let p = Motion::try_from_kinetic_energy(Species::<T>::PROTON, t(1e9)).unwrap();
+    let mut line = BeamLine::<T, 1000>::new();
+    for _ in 0..1000 {
+        line.try_push(Element::AcceleratingGap { voltage_v: t(10.0) })
+            .unwrap();
+    }
+    let end = line.try_transport(BeamState::on_axis(p)).unwrap();
+    assert_eq!(end.energy_gain(), t(10_000.0));
+    assert_eq!(end.kinetic_energy(), t::<T>(1e9) + t::<T>(10_000.0));
+    // and the naive sum loses it all in f32
+    let mut naive = t::<T>(1e9);
+    for _ in 0..1000 {
+        naive += t(10.0);
+    }
+    if T::MANTISSA_DIGITS == 24 {
+        assert_eq!(naive, t(1e9));
+    }
+}
+
+fn impossible_elements_are_typed_errors<T: Real>() {
+    let mut line = BeamLine::<T, 2>::new();
+    assert_eq!(
+        line.try_push(Element::Drift { length_m: t(-1.0) }),
+        Err(Error::NonPositiveLength)
+    );
+    assert_eq!(
+        line.try_push(Element::HardEdgeDipole {
+            field_t: T::INFINITY,
+            length_m: t(1.0)
+        }),
+        Err(Error::NonFinite)
+    );
+    assert_eq!(
+        line.try_push(Element::MagneticKick {
+            integrated_field_tm: t(1e-3),
+            direction: KickDirection::Angle(T::INFINITY)
+        }),
+        Err(Error::NonFinite)
+    );
+    line.try_push(Element::Drift { length_m: T::ZERO }).unwrap();
+    line.try_push(Element::Drift { length_m: t(1.0) }).unwrap();
+    assert_eq!(
+        line.try_push(Element::Drift { length_m: t(1.0) }),
+        Err(Error::CapacityFull)
+    );
+    assert_eq!(line.len(), 2);
+    // an energy loss below rest
+    let p = Motion::try_from_kinetic_energy(Species::<T>::PROTON, t(1e6)).unwrap();
+    let brake = Element::AcceleratingGap {
+        voltage_v: t(-1.5e6),
+    };
+    assert_eq!(
+        brake.try_apply(&BeamState::on_axis(p)),
+        Err(Error::BelowRestEnergy)
+    );
+    // a dipole that turns the particle back: L > rho
+    let bend = Element::HardEdgeDipole {
+        field_t: t(1.0),
+        length_m: t(1.0),
+    };
+    assert_eq!(
+        bend.try_apply(&BeamState::on_axis(p)),
+        Err(Error::AngleOutOfRange)
+    );
+    // a neutral particle in a corrector
+    let n = Motion::try_from_kinetic_energy(Species::new(t(939.565e6), T::ZERO), t(1e6)).unwrap();
+    let kick = Element::MagneticKick {
+        integrated_field_tm: t(1e-3),
+        direction: KickDirection::Horizontal,
+    };
+    assert_eq!(
+        kick.try_apply(&BeamState::on_axis(n)),
+        Err(Error::ZeroCharge)
+    );
+    // a particle at rest never arrives
+    let rest = Motion::try_from_kinetic_energy(Species::<T>::PROTON, T::ZERO).unwrap();
+    assert_eq!(
+        Element::Drift { length_m: t(1.0) }.try_apply(&BeamState::on_axis(rest)),
+        Err(Error::Overflow)
+    );
+}
+
+fn every_element_is_reachable<T: Real>() {
+    let p = Motion::try_from_kinetic_energy(Species::<T>::PROTON, t(20e6)).unwrap();
+    let line = BeamLine::<T, 16>::try_from_elements(&[
+        Element::Drift { length_m: t(1.0) },
+        Element::MagneticKick {
+            integrated_field_tm: t(1e-3),
+            direction: KickDirection::Horizontal,
+        },
+        Element::Drift { length_m: t(1.0) },
+        Element::AcceleratingGap { voltage_v: t(1e6) },
+        Element::HardEdgeDipole {
+            field_t: t(0.1),
+            length_m: t(0.5),
+        },
+        Element::ElectrostaticKick {
+            integrated_field_v: t(1e3),
+            direction: KickDirection::Vertical,
+        },
+        Element::Drift { length_m: t(2.0) },
+    ])
+    .unwrap();
+    let start = BeamState::try_new(p, t(1e-3), T::ZERO, T::ZERO, t(1e-4), T::ZERO).unwrap();
+    let mut seen = 0;
+    let mut last = start;
+    for item in line.states(start) {
+        let (i, s) = item.unwrap();
+        assert_eq!(s, line.try_state_after(start, i).unwrap());
+        assert!(s.time() >= last.time());
+        last = s;
+        seen += 1;
+    }
+    assert_eq!(seen, line.len());
+    assert_eq!(last, line.try_transport(start).unwrap());
+    let mut calls = 0;
+    let end = line
+        .try_transport_with(start, |i, e, _| {
+            assert_eq!(Some(e), line.elements().get(i));
+            calls += 1;
+        })
+        .unwrap();
+    assert_eq!((calls, end), (line.len(), last));
+    assert_eq!(line.try_state_after(start, 7), Err(Error::OutOfBounds));
+}
+
+macro_rules! both {
+    ($($name:ident),*) => {
+        mod f32_checks { $( #[test] fn $name() { super::$name::<f32>(); } )* }
+        mod f64_checks { $( #[test] fn $name() { super::$name::<f64>(); } )* }
+    };
+}
+
+both!(
+    corrector_then_drift,
+    drift_time_matches_published,
+    rotated_kick_is_split,
+    electrostatic_kick_matches_rigidity,
+    dipole_on_axis_matches_circle,
+    gap_gains_q_v_exactly,
+    small_gains_survive,
+    impossible_elements_are_typed_errors,
+    every_element_is_reachable
+);

@@ -1,0 +1,262 @@
+//! Plausibility checks and the moving window.
+//!
+//! Reference energies: shared/reference/published-checks.md §3 ([mp]: mpmath at 50 digits from
+//! CODATA 2018). The window statistics are checked against a two-pass computation in f64 (the
+//! textbook definition), and their stability against a large offset.
+#![allow(clippy::float_cmp)]
+
+use fourforce::check::{EnergyWindow, MovingWindow, Trend, Verdict};
+use fourforce::{Error, Real, Species};
+use proptest::prelude::*;
+
+fn t<T: Real>(x: f64) -> T {
+    T::from_f64(x)
+}
+
+fn eps<T: Real>() -> f64 {
+    T::EPSILON.to_f64()
+}
+
+const C: f64 = 299_792_458.0; // SI 2019, exact
+
+fn flight_time_gives_energy<T: Real>() {
+    // alpha 5 MeV: beta = 0.051744192122256112 (published-checks §3 [mp]); 1.5 m baseline.
+    let tof = 1.5 / (0.051744192122256112 * C);
+    let w = EnergyWindow::try_around(Species::<T>::ALPHA, t(5e6), t(0.01)).unwrap();
+    let v = w.check_flight_time(t(1.5), t(tof));
+    let e = (v.kinetic_energy().unwrap().to_f64() / 5e6 - 1.0).abs();
+    // condition 2 (T ~ 1/t^2) on an input rounded once, plus the formula: 16 eps
+    assert!(v.is_inside() && e < 16.0 * eps::<T>(), "{v:?} {e:e}");
+    // proton 1 GeV: 3.8120493548822230 ns/m (§3 [mp]); condition gamma^3 beta^2/(gamma - 1) = 6.3
+    let w = EnergyWindow::try_around(Species::<T>::PROTON, t(1e9), t(1e-3)).unwrap();
+    let v = w.check_flight_time(t(10.0), t(38.120493548822230e-9));
+    let e = (v.kinetic_energy().unwrap().to_f64() / 1e9 - 1.0).abs();
+    assert!(v.is_inside() && e < 64.0 * eps::<T>(), "{v:?} {e:e}");
+    // 2 % slower is Low, 2 % faster is High; the deviation carries the sign
+    assert!(
+        matches!(w.check_flight_time(t(10.0), t(38.9e-9)), Verdict::Low { deviation, .. } if deviation < T::ZERO)
+    );
+    assert!(
+        matches!(w.check_flight_time(t(10.0), t(37.4e-9)), Verdict::High { deviation, .. } if deviation > T::ZERO)
+    );
+    // shorter than light needs: 10 m in 33 ns (light: 33.356 ns)
+    assert_eq!(
+        w.check_flight_time(t(10.0), t(33.0e-9)),
+        Verdict::Impossible(Error::FasterThanLight)
+    );
+    assert_eq!(
+        w.check_flight_time(t(10.0), T::ZERO),
+        Verdict::Impossible(Error::NonPositiveLength)
+    );
+    assert_eq!(
+        w.check_flight_time(t(f64::NAN), t(1e-6)),
+        Verdict::Impossible(Error::NonFinite)
+    );
+}
+
+fn centring_field_gives_energy<T: Real>() {
+    // proton 250 MeV: B rho = 2.4321284387255044 T m (published-checks §3 [mp]); rho = 2 m.
+    let w = EnergyWindow::try_around(Species::<T>::PROTON, t(250e6), t(0.002)).unwrap();
+    let v = w.check_centring_field(t(2.4321284387255044 / 2.0), t(2.0));
+    let e = (v.kinetic_energy().unwrap().to_f64() / 250e6 - 1.0).abs();
+    // condition (gamma + 1)/gamma = 1.8 on B and the product: 16 eps
+    assert!(v.is_inside() && e < 16.0 * eps::<T>(), "{v:?} {e:e}");
+    // a negative field centres the beam the other way: same energy
+    assert!(
+        w.check_centring_field(t(-2.4321284387255044 / 2.0), t(2.0))
+            .is_inside()
+    );
+    assert!(matches!(
+        w.check_centring_field(t(1.1), t(2.0)),
+        Verdict::Low { .. }
+    ));
+    assert_eq!(
+        w.check_centring_field(T::ZERO, t(2.0)),
+        Verdict::Impossible(Error::ZeroField)
+    );
+    assert_eq!(
+        w.check_centring_field(t(1.0), t(-2.0)),
+        Verdict::Impossible(Error::NonPositiveLength)
+    );
+    let neutral =
+        EnergyWindow::try_around(Species::new(t(939.565e6), T::ZERO), t(1e6), t(0.1)).unwrap();
+    assert_eq!(
+        neutral.check_centring_field(t(1.0), t(1.0)),
+        Verdict::Impossible(Error::ZeroCharge)
+    );
+}
+
+fn window_edges<T: Real>() {
+    let w = EnergyWindow::try_new(Species::<T>::PROTON, t(9e6), t(10e6), t(11e6)).unwrap();
+    assert!(w.check_kinetic_energy(t(9e6)).is_inside()); // bounds included
+    assert!(w.check_kinetic_energy(t(11e6)).is_inside());
+    assert_eq!(
+        w.check_kinetic_energy(t(12e6)),
+        Verdict::High {
+            kinetic_energy_ev: t(12e6),
+            deviation: t(0.2)
+        }
+    );
+    assert_eq!(
+        w.check_kinetic_energy(t(-1.0)),
+        Verdict::Impossible(Error::NegativeEnergy)
+    );
+    assert_eq!(
+        w.check_kinetic_energy(T::INFINITY),
+        Verdict::Impossible(Error::NonFinite)
+    );
+    assert_eq!(
+        EnergyWindow::try_new(Species::<T>::PROTON, t(-1.0), t(1.0), t(2.0)),
+        Err(Error::NegativeEnergy)
+    );
+    assert_eq!(
+        EnergyWindow::try_new(Species::<T>::PROTON, T::ZERO, T::ZERO, T::ZERO),
+        Err(Error::InvalidRange)
+    );
+    assert_eq!(
+        EnergyWindow::try_around(Species::<T>::PROTON, t(1e6), t(1.5)),
+        Err(Error::InvalidRange)
+    );
+}
+
+fn window_is_stable_at_a_large_offset<T: Real>() {
+    // Readings 1e4 + k*0.01 pattern: a sum-of-squares formula loses everything in f32
+    // (1e8 squared spacing is 8); Welford's update and the two-pass resync keep the spread.
+    let mut w = MovingWindow::<T, 16>::new();
+    let pattern = [0.0, 0.01, -0.01, 0.02, -0.02, 0.0, 0.01, -0.01];
+    let mut stored = [0.0_f64; 16];
+    for k in 0..100 {
+        let x: T = t(1.0e4 + pattern[k % 8]);
+        w.try_push(x).unwrap();
+        stored[k % 16] = x.to_f64();
+    }
+    let mean = stored.iter().sum::<f64>() / 16.0;
+    let var = stored.iter().map(|x| (x - mean) * (x - mean)).sum::<f64>() / 15.0;
+    let spread = w.try_spread().unwrap().to_f64();
+    assert!((w.try_mean().unwrap().to_f64() - mean).abs() < 4.0 * eps::<T>() * 1e4);
+    eprintln!(
+        "spread at offset 1e4, {} digits: relative error {:.1e}",
+        T::MANTISSA_DIGITS,
+        (spread / var.sqrt() - 1.0).abs()
+    );
+    // measured 1.2e-8 (f32) and 0 (f64): Welford's deviations are exact near the mean
+    let bar = if T::MANTISSA_DIGITS == 24 {
+        1e-5
+    } else {
+        1e-12
+    };
+    assert!(
+        (spread / var.sqrt() - 1.0).abs() < bar,
+        "{spread} vs {}",
+        var.sqrt()
+    );
+    // the textbook one-pass formula (sum x^2 - n mean^2)/(n - 1) in the same precision fails
+    let (mut sum, mut sum_sq) = (T::ZERO, T::ZERO);
+    for &x in &stored {
+        sum += t::<T>(x);
+        sum_sq += t::<T>(x) * t::<T>(x);
+    }
+    let n: T = t(16.0);
+    let naive = ((sum_sq - sum * sum / n) / t(15.0))
+        .max(T::ZERO)
+        .sqrt()
+        .to_f64();
+    if T::MANTISSA_DIGITS == 24 {
+        assert!((naive / var.sqrt() - 1.0).abs() > 0.5, "naive {naive}");
+    }
+    assert_eq!(w.try_trend(t(0.05)).unwrap(), Trend::Steady);
+}
+
+fn trend_is_flagged<T: Real>() {
+    let mut w = MovingWindow::<T, 32>::new();
+    assert_eq!(w.try_mean(), Err(Error::Empty));
+    w.try_push(t(1.0)).unwrap();
+    assert_eq!(w.try_slope(), Err(Error::Empty));
+    assert_eq!(w.try_spread().unwrap(), T::ZERO);
+    w.clear();
+    // a slow ramp of 0.002 per reading under a +-0.01 alternating noise
+    for k in 0..64 {
+        let noise = if k % 2 == 0 { 0.01 } else { -0.01 };
+        w.try_push(t(5.0 + 0.002 * f64::from(k) + noise)).unwrap();
+    }
+    let drift = w.try_drift().unwrap().to_f64();
+    // exact fitted drift over the last 32: 31 * 0.002 plus the noise's fit, |.| < 0.003
+    assert!((drift - 0.062).abs() < 0.003, "{drift}");
+    assert_eq!(w.try_trend(t(0.03)).unwrap(), Trend::Rising);
+    assert_eq!(w.try_trend(t(0.1)).unwrap(), Trend::Steady);
+    assert_eq!(w.try_trend(t(-1.0)), Err(Error::NegativeMagnitude));
+    assert_eq!(w.try_push(T::INFINITY), Err(Error::NonFinite));
+    assert_eq!(w.len(), 32);
+}
+
+macro_rules! both {
+    ($($name:ident),*) => {
+        mod f32_checks { $( #[test] fn $name() { super::$name::<f32>(); } )* }
+        mod f64_checks { $( #[test] fn $name() { super::$name::<f64>(); } )* }
+    };
+}
+
+both!(
+    flight_time_gives_energy,
+    centring_field_gives_energy,
+    window_edges,
+    window_is_stable_at_a_large_offset,
+    trend_is_flagged
+);
+
+fn two_pass(xs: &[f64]) -> (f64, f64, f64) {
+    let n = xs.len() as f64;
+    let mean = xs.iter().sum::<f64>() / n;
+    let m2: f64 = xs.iter().map(|x| (x - mean) * (x - mean)).sum();
+    let c = (n - 1.0) / 2.0;
+    let sxy: f64 = xs
+        .iter()
+        .enumerate()
+        .map(|(i, x)| (i as f64 - c) * (x - mean))
+        .sum();
+    let sxx: f64 = (0..xs.len()).map(|i| (i as f64 - c).powi(2)).sum();
+    (mean, (m2 / (n - 1.0)).sqrt(), sxy / sxx)
+}
+
+proptest! {
+    // Invariant: after any sequence, the window's statistics are those of its last N values
+    // (two-pass definition in f64).
+    #[test]
+    fn window_matches_its_last_values(xs in prop::collection::vec(-1.0e3_f64..1.0e3, 2..200)) {
+        let mut w = MovingWindow::<f64, 12>::new();
+        for &x in &xs {
+            w.try_push(x).unwrap();
+        }
+        let tail = &xs[xs.len().saturating_sub(12)..];
+        let (mean, spread, slope) = two_pass(tail);
+        let scale = tail.iter().fold(1.0_f64, |a, x| a.max(x.abs()));
+        prop_assert!((w.try_mean().unwrap() - mean).abs() <= 1e-12 * scale);
+        prop_assert!((w.try_spread().unwrap() - spread).abs() <= 1e-9 * scale);
+        prop_assert!((w.try_slope().unwrap() - slope).abs() <= 1e-12 * scale);
+    }
+
+    #[test]
+    fn window_matches_its_last_values_f32(xs in prop::collection::vec(-1.0e3_f32..1.0e3, 2..200)) {
+        let mut w = MovingWindow::<f32, 12>::new();
+        for &x in &xs {
+            w.try_push(x).unwrap();
+        }
+        let tail: Vec<f64> = xs[xs.len().saturating_sub(12)..].iter().map(|&x| f64::from(x)).collect();
+        let (mean, spread, slope) = two_pass(&tail);
+        let scale = tail.iter().fold(1.0_f64, |a, x| a.max(x.abs()));
+        let e = f64::from(f32::EPSILON);
+        prop_assert!((f64::from(w.try_mean().unwrap()) - mean).abs() <= 64.0 * e * scale);
+        prop_assert!((f64::from(w.try_spread().unwrap()) - spread).abs() <= 2e-3 * scale);
+        prop_assert!((f64::from(w.try_slope().unwrap()) - slope).abs() <= 64.0 * e * scale);
+    }
+
+    // A verdict is Inside exactly when the inferred energy lies in the window.
+    #[test]
+    fn verdict_agrees_with_the_window(t_ev in 0.0_f64..2.0e7) {
+        let w = EnergyWindow::try_new(Species::<f64>::PROTON, 9.0e6, 10.0e6, 11.0e6).unwrap();
+        let v = w.check_kinetic_energy(t_ev);
+        let inside = (9.0e6..=11.0e6).contains(&t_ev);
+        prop_assert_eq!(v.is_inside(), inside);
+        prop_assert_eq!(v.kinetic_energy(), Some(t_ev));
+    }
+}
