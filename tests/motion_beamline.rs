@@ -5,6 +5,8 @@
 //! sin theta = L / rho, offset rho (1 - cos theta): Jackson 3rd ed. §12.2, from memory), and a
 //! cross-check against the Boris pusher of this crate.
 #![allow(clippy::float_cmp)]
+// Reference values are typed with all their published digits.
+#![allow(clippy::excessive_precision)]
 
 use fourforce::beamline::{BeamLine, BeamState, Element, KickDirection};
 use fourforce::push::{Boris, LocalField, Particle, Pusher};

@@ -4,6 +4,8 @@
 //! CODATA 2018). The window statistics are checked against a two-pass computation in f64 (the
 //! textbook definition), and their stability against a large offset.
 #![allow(clippy::float_cmp)]
+// Reference values are typed with all their published digits.
+#![allow(clippy::excessive_precision)]
 
 use fourforce::check::{EnergyWindow, MovingWindow, Trend, Verdict};
 use fourforce::{Error, Real, Species};

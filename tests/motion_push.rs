@@ -10,6 +10,8 @@
 //! Every check runs for f32 and f64 and for the three schemes. Measured figures are printed
 //! (`cargo test --test motion_push -- --nocapture`).
 #![allow(clippy::float_cmp)]
+// Reference values are typed with all their published digits.
+#![allow(clippy::excessive_precision)]
 
 use fourforce::push::{
     Boris, FieldSource, HigueraCary, LocalField, Particle, Pusher, UniformField, Vay,

@@ -5,6 +5,8 @@
 //! a correct model is the textbook property of a proportional loop on a linear plant (common
 //! practice).
 #![allow(clippy::float_cmp)]
+// Reference values are typed with all their published digits.
+#![allow(clippy::excessive_precision)]
 
 use fourforce::beamline::{BeamLine, BeamState, Element, KickDirection};
 use fourforce::steer::SteeringSetup;
