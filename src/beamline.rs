@@ -8,7 +8,7 @@
 //!
 //! # Conventions
 //! - The line's axis is straight; `x` is horizontal, `y` vertical, `s` along the line.
-//! - Signs follow [`optics`](crate::optics): a positive integrated field (or field) deflects a
+//! - Signs follow [`optics`]: a positive integrated field (or field) deflects a
 //!   positive charge toward `+x` (or along the kick direction), a negative charge the other way.
 //! - Thin elements change slopes, not offsets, and take no time.
 //!
@@ -817,7 +817,8 @@ impl<T: Real, const N: usize> BeamLine<T, N> {
     #[must_use]
     pub fn states(&self, start: BeamState<T>) -> States<'_, T> {
         States {
-            elements: self.elements.iter().enumerate(),
+            elements: &self.elements,
+            index: 0,
             state: Some(start),
         }
     }
@@ -835,8 +836,10 @@ impl<T: Real, const N: usize> BeamLine<T, N> {
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Debug)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct States<'a, T: Real> {
-    elements: core::iter::Enumerate<core::slice::Iter<'a, Element<T>>>,
+    elements: &'a [Element<T>],
+    index: usize,
     state: Option<BeamState<T>>,
 }
 
@@ -845,7 +848,9 @@ impl<T: Real> Iterator for States<'_, T> {
 
     fn next(&mut self) -> Option<Self::Item> {
         let state = self.state.take()?;
-        let (index, element) = self.elements.next()?;
+        let index = self.index;
+        let element = self.elements.get(index)?;
+        self.index = index + 1;
         match element.try_apply(&state) {
             Ok(next) => {
                 self.state = Some(next);

@@ -14,7 +14,7 @@
 //!
 //! # For firmware authors
 //! A check is one [`Motion`] construction (a square root, a few divisions) and two comparisons.
-//! A window push is O(1); [`MovingWindow::slope`] is O(N).
+//! A window push is O(1); [`MovingWindow::try_slope`] is O(N).
 //!
 //! # Examples
 //! ```

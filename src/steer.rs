@@ -2,7 +2,7 @@
 //! monitor downstream.
 //!
 //! # Model and assumptions
-//! A thin magnetic corrector kicks the beam by `θ = ±∫B dl / Bρ` ([`optics::kick_angle`]); a
+//! A thin magnetic corrector kicks the beam by `θ = ±∫B dl / Bρ` ([`optics::kick_angle`](crate::optics::kick_angle)); a
 //! field-free drift of length `L` carries it to a position monitor, where the offset changes by
 //! `L θ`. So a change `Δ(∫B dl)` of the corrector moves the beam at the monitor by
 //! `±L Δ(∫B dl) / Bρ`. The step asks for a fraction `g` (the gain) of the change that would put

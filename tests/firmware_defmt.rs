@@ -48,6 +48,18 @@ public_types! {
     Boris => [fourforce::push::Boris<f32>, fourforce::push::Boris<f64>],
     Vay => [fourforce::push::Vay<f32>, fourforce::push::Vay<f64>],
     HigueraCary => [fourforce::push::HigueraCary<f32>, fourforce::push::HigueraCary<f64>],
+    // motion: beam line, checks, steering
+    KickDirection => [fourforce::beamline::KickDirection<f32>, fourforce::beamline::KickDirection<f64>],
+    Element => [fourforce::beamline::Element<f32>, fourforce::beamline::Element<f64>],
+    BeamState => [fourforce::beamline::BeamState<f32>, fourforce::beamline::BeamState<f64>],
+    BeamLine => [fourforce::beamline::BeamLine<f32, 16>, fourforce::beamline::BeamLine<f64, 4>],
+    States => [fourforce::beamline::States<'static, f32>, fourforce::beamline::States<'static, f64>],
+    Verdict => [fourforce::check::Verdict<f32>, fourforce::check::Verdict<f64>],
+    EnergyWindow => [fourforce::check::EnergyWindow<f32>, fourforce::check::EnergyWindow<f64>],
+    Trend => [fourforce::check::Trend],
+    MovingWindow => [fourforce::check::MovingWindow<f32, 8>, fourforce::check::MovingWindow<f64, 32>],
+    SteeringSetup => [fourforce::steer::SteeringSetup<f32>, fourforce::steer::SteeringSetup<f64>],
+    SteeringCommand => [fourforce::steer::SteeringCommand<f32>, fourforce::steer::SteeringCommand<f64>],
 }
 
 /// `pub` types that are not reachable from outside the crate (none so far).
