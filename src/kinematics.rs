@@ -349,9 +349,21 @@ impl<T: Real> Motion<T> {
 
     /// The state from `β` and `1 − β`, both given accurately and `0 ≤ β < 1`.
     fn from_beta_parts(species: Species<T>, beta: T, one_minus_beta: T) -> Result<Self, Error> {
-        let gamma = T::ONE / (one_minus_beta * (T::ONE + beta)).sqrt();
+        let (gamma, g1) = if beta < T::HALF {
+            // Slow: with x = β² and d = 1 − x (both near exact), s = √d = 1/γ and
+            // γ − 1 = x/(s(1 + s)) = x/(s + d), every sum of positive terms.
+            let x = beta * beta;
+            let d = T::ONE - x;
+            let s = d.sqrt();
+            let g1 = x / (s + d);
+            (T::ONE + g1, g1)
+        } else {
+            // Fast: 1 − β is given exactly; γ = 1/√((1 − β)(1 + β)).
+            let gamma = T::ONE / (one_minus_beta * (T::ONE + beta)).sqrt();
+            let bg = beta * gamma;
+            (gamma, bg * (bg / (gamma + T::ONE)))
+        };
         let bg = beta * gamma;
-        let g1 = bg * (bg / (gamma + T::ONE));
         let m = species.rest_energy();
         Ok(Self {
             species,
