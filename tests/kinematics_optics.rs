@@ -1,0 +1,296 @@
+//! The beam-line functions of `fourforce::optics` against published and mpmath values, in both
+//! precisions, and their typed errors.
+//!
+//! Sources: published-checks.md §7.1 (gyration in uniform B, Jackson 3rd ed. §12.2, from memory;
+//! values mpmath 50 digits from CODATA 2018) and §7.5 (energy gain through a potential
+//! difference, energy conservation); the flight-time differences were computed for this file with
+//! mpmath at 50 digits from CODATA 2018 (m_e c^2, m_mu c^2, m_p c^2) and the exact c.
+#![allow(clippy::unwrap_used, clippy::float_cmp)]
+// Reference values are typed with all the digits their source prints.
+#![allow(clippy::excessive_precision)]
+
+use fourforce::{Error, Motion, Real, Species, optics};
+
+fn eps_err<T: Real>(got: T, want: f64) -> f64 {
+    ((got.to_f64() - want) / want).abs() / T::EPSILON.to_f64()
+}
+
+fn state<T: Real>(s: Species<T>, t_ev: f64) -> Motion<T> {
+    Motion::try_from_kinetic_energy(s, T::from_f64(t_ev)).unwrap()
+}
+
+fn gyration<T: Real>() {
+    // published-checks §7.1, pitch angle 90 degrees: (species, T eV, B T, radius m, omega rad/s).
+    let rows: [(Species<T>, f64, f64, f64, f64); 3] = [
+        (Species::PROTON, 10.0e6, 1.0, 0.458155375777, 94778196.0429),
+        (
+            Species::ELECTRON,
+            1.0e3,
+            0.01,
+            0.0106688268839,
+            1755384808.38,
+        ),
+        (Species::PROTON, 250.0e6, 1.5, 1.62141895915, 113453204.997),
+    ];
+    for (s, t, b, radius, omega) in rows {
+        let m = state(s, t);
+        let b = T::from_f64(b);
+        // 12 significant digits published: compare to 1e-11 or 8 eps, whichever is larger.
+        let tol = (8.0 * T::EPSILON.to_f64()).max(1e-11);
+        let r = optics::bending_radius(&m, b).unwrap();
+        assert!(
+            ((r.to_f64() - radius) / radius).abs() <= tol,
+            "{r} vs {radius}"
+        );
+        let f = optics::revolution_frequency(&m, b).unwrap().to_f64();
+        let w = 2.0 * core::f64::consts::PI * f;
+        assert!(((w - omega) / omega).abs() <= tol + 2e-16, "{w} vs {omega}");
+    }
+    // Gyroradius with pitch angle 30 degrees: r = pc sin(alpha)/(c |Q| B) = 0.0237159022429 m
+    // for a 1 MeV electron in 0.1 T (published-checks §7.1).
+    let e = state(Species::<T>::ELECTRON, 1.0e6);
+    let r = optics::bending_radius(&e, T::from_f64(0.1)).unwrap() * T::HALF;
+    assert!(((r.to_f64() - 0.0237159022429) / 0.0237159022429).abs() <= 1e-6);
+}
+
+#[test]
+fn gyration_published_both_precisions() {
+    gyration::<f32>();
+    gyration::<f64>();
+}
+
+fn potential<T: Real>() {
+    // published-checks §7.5: the kinetic energy after a uniform-field gap is T0 + |Q| E d.
+    // (species, T0 eV, potential difference V with the sign that accelerates, beta after).
+    let rows: [(Species<T>, f64, f64, f64); 3] = [
+        (Species::ELECTRON, 0.0, 1.0e5, 0.548220861952),
+        (Species::PROTON, 1.0e6, -1.0e6, 0.0651886758890),
+        (Species::ALPHA, 0.0, -1.0e5, 0.0103588302961),
+    ];
+    for (s, t0, dphi, beta) in rows {
+        let after = optics::after_potential_difference(&state(s, t0), T::from_f64(dphi)).unwrap();
+        let tol = (8.0 * T::EPSILON.to_f64()).max(1e-11);
+        assert!(((after.beta().to_f64() - beta) / beta).abs() <= tol);
+    }
+    // A potential the particle cannot climb: a typed error.
+    let slow = state(Species::<T>::PROTON, 1.0e3);
+    assert_eq!(
+        optics::after_potential_difference(&slow, T::from_f64(2.0e3)),
+        Err(Error::NegativeEnergy)
+    );
+}
+
+#[test]
+fn energy_gain_published_both_precisions() {
+    potential::<f32>();
+    potential::<f64>();
+}
+
+fn flight_differences<T: Real>() {
+    // Computed with mpmath (50 digits, CODATA 2018, exact c). Inputs exact in both precisions.
+    // Bound: 8 eps times the condition of the difference, (|x_a| + |x_b|)/|x_a - x_b| with x the
+    // lag behind light of each state.
+    let cases: [(Species<T>, f64, Species<T>, f64, f64, f64); 3] = [
+        (
+            Species::MUON,
+            1.0e9,
+            Species::ELECTRON,
+            1.0e9,
+            20.0,
+            3.0670433903701499e-10,
+        ),
+        (
+            Species::ELECTRON,
+            1.0e10,
+            Species::ELECTRON,
+            2.0e10,
+            100.0,
+            3.2658692996737853e-16,
+        ),
+        (
+            Species::PROTON,
+            4096.0e9,
+            Species::PROTON,
+            8192.0e9,
+            1000.0,
+            6.5601863843856245e-14,
+        ),
+    ];
+    for (sa, ta, sb, tb, l, want) in cases {
+        let (a, b) = (state(sa, ta), state(sb, tb));
+        let l = T::from_f64(l);
+        let la = optics::lag_behind_light(&a, l).unwrap().to_f64();
+        let lb = optics::lag_behind_light(&b, l).unwrap().to_f64();
+        let cond = (la.abs() + lb.abs()) / (la - lb).abs();
+        let dt = optics::flight_time_difference(&a, &b, l).unwrap();
+        let err = eps_err(dt, want);
+        assert!(err <= 8.0 * cond, "{err} eps, condition {cond}");
+        // The naive difference of two flight times in f32 loses everything for the electrons.
+        if T::MANTISSA_DIGITS == 24 && sa == sb {
+            let naive = a.flight_time(l) - b.flight_time(l);
+            assert!(eps_err(naive, want) > 1e3);
+        }
+    }
+    // The lag of a 10 GeV electron over 100 m: 4.3545665691171279e-16 s (published-checks §6).
+    let e = state(Species::<T>::ELECTRON, 1.0e10);
+    assert!(
+        eps_err(
+            optics::lag_behind_light(&e, T::from_f64(100.0)).unwrap(),
+            4.3545665691171279e-16
+        ) <= 8.0
+    );
+}
+
+#[test]
+fn flight_time_differences_both_precisions() {
+    flight_differences::<f32>();
+    flight_differences::<f64>();
+}
+
+fn kicks<T: Real>() {
+    // 250 MeV proton, B rho = 2.4321284387255044 T m (published-checks §3). A hard-edge dipole of
+    // 0.5 T over 0.2 m: asin(0.1 / B rho) = 0.041127843262663984 rad; the small-angle form gives
+    // 0.041116249622245476 rad (mpmath).
+    let p = state(Species::<T>::PROTON, 250.0e6);
+    let (b, l) = (T::from_f64(0.5), T::from_f64(0.2));
+    let exact = optics::kick_angle_hard_edge(&p, b, l).unwrap();
+    assert!(eps_err(exact, 0.041127843262663984) <= 8.0);
+    let small = optics::kick_angle(&p, b * l).unwrap();
+    assert!(eps_err(small, 0.041116249622245476) <= 8.0);
+    // And back: the field for that angle, and the energy from that field.
+    let field = optics::field_for_angle_hard_edge(&p, exact, l).unwrap();
+    assert!(eps_err(field, 0.5) <= 8.0);
+    let back = optics::energy_from_dipole(Species::<T>::PROTON, b, l, exact).unwrap();
+    assert!(eps_err(back.kinetic_energy(), 250.0e6) <= 16.0); // condition of T in B rho: (gamma + 1)/gamma = 1.8
+    let bl = optics::integrated_field_for_angle(&p, small).unwrap();
+    assert!(eps_err(bl, 0.1) <= 4.0);
+    // A negative charge turns the other way.
+    let e = state(Species::<T>::ELECTRON, 1.0e6);
+    assert!(optics::kick_angle(&e, T::from_f64(1e-4)).unwrap() < T::ZERO);
+    // Electrostatic deflector and its inverse: alpha 5 MeV, E rho = 4996650.9299730097 V.
+    let a = state(Species::<T>::ALPHA, 5.0e6);
+    let theta = optics::electrostatic_kick_angle(&a, T::from_f64(2.0e4), T::from_f64(0.5)).unwrap();
+    assert!(eps_err(theta, 1.0e4 / 4996650.9299730097) <= 8.0);
+    let field = optics::deflector_field_for_angle(&a, theta, T::from_f64(0.5)).unwrap();
+    assert!(eps_err(field, 2.0e4) <= 8.0);
+    let back = optics::energy_from_deflector(
+        Species::<T>::ALPHA,
+        field,
+        T::from_f64(4996650.9299730097 / 2.0e4),
+    )
+    .unwrap();
+    assert!(eps_err(back.kinetic_energy(), 5.0e6) <= 16.0);
+    // Electric bending radius: E rho / E.
+    let r = optics::electric_bending_radius(&a, T::from_f64(2.0e4)).unwrap();
+    assert!(eps_err(r, 4996650.9299730097 / 2.0e4) <= 8.0);
+    // Energy from a centring field: B rho = B rho.
+    let c = optics::energy_from_centring_field(
+        Species::<T>::PROTON,
+        T::from_f64(1.5),
+        T::from_f64(2.4321284387255044 / 1.5),
+    )
+    .unwrap();
+    assert!(eps_err(c.kinetic_energy(), 250.0e6) <= 16.0);
+    // Energy from a flight time: 10 m at 3.8120493548822230 ns/m is a 1 GeV proton (§3).
+    let f = optics::energy_from_flight_time(
+        Species::<T>::PROTON,
+        T::from_f64(10.0),
+        T::from_f64(38.120493548822230e-9),
+    )
+    .unwrap();
+    assert!(eps_err(f.kinetic_energy(), 1.0e9) <= 64.0); // condition of T in t: gamma^3 beta^2/(gamma - 1) = 6.3, on the f32 input rounding
+}
+
+#[test]
+fn kicks_and_inverse_problems_both_precisions() {
+    kicks::<f32>();
+    kicks::<f64>();
+}
+
+fn edges<T: Real>() {
+    let p = state(Species::<T>::PROTON, 250.0e6);
+    let rest = state(Species::<T>::PROTON, 0.0);
+    let n = Motion::try_from_kinetic_energy(
+        Species::<T>::try_new(T::from_f64(939.565_420_52e6), T::ZERO).unwrap(),
+        T::ONE,
+    )
+    .unwrap();
+    let (one, zero, nan) = (T::ONE, T::ZERO, T::ZERO / T::ZERO);
+    assert_eq!(optics::bending_radius(&p, zero), Err(Error::ZeroField));
+    assert_eq!(optics::bending_radius(&p, nan), Err(Error::NonFinite));
+    assert_eq!(optics::bending_radius(&n, one), Err(Error::ZeroCharge));
+    assert_eq!(optics::bending_radius(&rest, one), Ok(zero));
+    assert_eq!(
+        optics::electric_bending_radius(&p, zero),
+        Err(Error::ZeroField)
+    );
+    assert_eq!(
+        optics::revolution_frequency(&p, zero),
+        Err(Error::ZeroField)
+    );
+    assert_eq!(
+        optics::revolution_frequency(&n, one),
+        Err(Error::ZeroCharge)
+    );
+    assert_eq!(
+        optics::lag_behind_light(&p, zero),
+        Err(Error::NonPositiveLength)
+    );
+    assert_eq!(optics::lag_behind_light(&rest, one), Err(Error::Overflow));
+    assert_eq!(
+        optics::flight_time_difference(&p, &rest, one),
+        Err(Error::Overflow)
+    );
+    assert_eq!(
+        optics::energy_gain(Species::<T>::PROTON, nan),
+        Err(Error::NonFinite)
+    );
+    assert_eq!(optics::kick_angle(&rest, one), Err(Error::Overflow));
+    assert_eq!(optics::kick_angle(&n, one), Err(Error::ZeroCharge));
+    assert_eq!(
+        optics::kick_angle_hard_edge(&p, T::from_f64(30.0), one),
+        Err(Error::AngleOutOfRange)
+    );
+    assert_eq!(
+        optics::kick_angle_hard_edge(&p, one, -one),
+        Err(Error::NonPositiveLength)
+    );
+    assert_eq!(
+        optics::field_for_angle_hard_edge(&p, T::TWO, one),
+        Err(Error::AngleOutOfRange)
+    );
+    assert_eq!(
+        optics::electrostatic_kick_angle(&rest, one, one),
+        Err(Error::Overflow)
+    );
+    assert_eq!(
+        optics::deflector_field_for_angle(&p, one, zero),
+        Err(Error::NonPositiveLength)
+    );
+    assert_eq!(
+        optics::energy_from_dipole(Species::<T>::PROTON, one, one, zero),
+        Err(Error::AngleOutOfRange)
+    );
+    assert_eq!(
+        optics::energy_from_dipole(Species::<T>::PROTON, zero, one, one),
+        Err(Error::ZeroField)
+    );
+    assert_eq!(
+        optics::energy_from_centring_field(Species::<T>::PROTON, one, zero),
+        Err(Error::NonPositiveLength)
+    );
+    assert_eq!(
+        optics::energy_from_deflector(Species::<T>::PROTON, zero, one),
+        Err(Error::ZeroField)
+    );
+    assert_eq!(
+        optics::energy_from_flight_time(Species::<T>::PROTON, one, T::from_f64(1e-9)),
+        Err(Error::FasterThanLight)
+    );
+}
+
+#[test]
+fn typed_errors_at_the_edges_both_precisions() {
+    edges::<f32>();
+    edges::<f64>();
+}
