@@ -141,6 +141,9 @@ fn unsigned_zero<T: Real>(x: T) -> T {
 impl<T: Real> Motion<T> {
     /// Builds the state from the kinetic energy `T` in eV.
     ///
+    /// The reference constructor: every quantity within 2.02 eps in `f32` and 2.32 eps in `f64`
+    /// (measured, every species, 1 eV to 100 TeV, mpmath reference; see each accessor).
+    ///
     /// `γ − 1 = T/m`, `E = T + m`, `pc = √(T(T + 2m))`, `βγ = pc/m`, `β = pc/E`,
     /// `1 − β = (m/E)(m/(E + pc))`. `T = 0` is a particle at rest (`β = 0`, flight time
     /// infinite).
@@ -245,6 +248,9 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the total energy `E = T + m` in eV.
     ///
+    /// Accuracy, measured for inputs exact in the precision (every species, states from 1 eV to
+    /// 100 TeV, mpmath reference): every quantity within 1.57 eps in `f32`, 1.78 eps in `f64` beyond the inherited term below.
+    ///
     /// `T = E − m` (exact in floating point for `E ≤ 2m`), then as
     /// [`try_from_kinetic_energy`](Self::try_from_kinetic_energy), keeping `γ = E/m`.
     /// Conditioning: the rest energy is itself rounded to the precision (up to 0.43 eps in
@@ -280,6 +286,9 @@ impl<T: Real> Motion<T> {
     }
 
     /// Builds the state from the Lorentz factor `γ`.
+    ///
+    /// Accuracy, measured for inputs exact in the precision (every species, states from 1 eV to
+    /// 100 TeV, mpmath reference): every quantity within 1.55 eps in `f32`, 1.13 eps in `f64`.
     ///
     /// `γ − 1` (exact in floating point for `γ ≤ 2`), `βγ = √((γ − 1)(γ + 1))`, `β = βγ/γ`,
     /// `1 − β = 1/(γ(γ + βγ))`, `T = (γ − 1) m`. Exact for the `γ` given; an error already in
@@ -319,6 +328,9 @@ impl<T: Real> Motion<T> {
     }
 
     /// Builds the state from `β = v/c`.
+    ///
+    /// Accuracy, measured for inputs exact in the precision (every species, states from 1 eV to
+    /// 100 TeV, mpmath reference): every quantity within 2.34 eps in `f32`, 1.70 eps in `f64`.
     ///
     /// `1 − β` (exact in floating point for `β ≥ 1/2`), `γ = 1/√((1 − β)(1 + β))`,
     /// `βγ = β γ`, `γ − 1 = βγ · βγ/(γ + 1)`. Exact for the `β` given; an error already in `β`
@@ -380,6 +392,9 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from `βγ = pc/m` (the spatial part of the four-velocity, in units of c).
     ///
+    /// Accuracy, measured for inputs exact in the precision (every species, states from 1 eV to
+    /// 100 TeV, mpmath reference): every quantity within 1.94 eps in `f32`, 1.82 eps in `f64`.
+    ///
     /// `γ = √(1 + (βγ)²)`, `γ − 1 = βγ · βγ/(γ + 1)`, `β = βγ/γ`, `1 − β = 1/(γ(γ + βγ))`.
     /// Well conditioned everywhere (condition ≤ 1 for every quantity).
     ///
@@ -417,6 +432,9 @@ impl<T: Real> Motion<T> {
     }
 
     /// Builds the state from the momentum `pc` in eV (momentum in eV/c).
+    ///
+    /// Accuracy, measured for inputs exact in the precision (every species, states from 1 eV to
+    /// 100 TeV, mpmath reference): every quantity within 1.66 eps in `f32`, 1.90 eps in `f64`.
     ///
     /// `E = √((pc)² + m²)`, `T = pc · pc/(E + m)`, `β = pc/E`, `1 − β = (m/E)(m/(E + pc))`.
     /// Well conditioned everywhere.
@@ -490,6 +508,9 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the magnetic rigidity `Bρ = p/q` in T m.
     ///
+    /// Accuracy, measured for inputs exact in the precision (every species, states from 1 eV to
+    /// 100 TeV, mpmath reference): every quantity within 2.54 eps in `f32`, 1.70 eps in `f64`.
+    ///
     /// `pc [eV] = Bρ · c · |Q|` (with `c = C_HI + C_LO` exact), then as
     /// [`try_from_momentum`](Self::try_from_momentum).
     ///
@@ -516,6 +537,9 @@ impl<T: Real> Motion<T> {
     }
 
     /// Builds the state from the electric rigidity `Eρ = pv/q` in V.
+    ///
+    /// Accuracy, measured for inputs exact in the precision (every species, states from 1 eV to
+    /// 100 TeV, mpmath reference): every quantity within 2.26 eps in `f32`, 1.67 eps in `f64`.
     ///
     /// With `w = Eρ · |Q| = pc·β = (pc)²/E`, solved without cancellation:
     /// `E = (w + √(w² + 4m²))/2`, `pc = √(w E)`, `T = w E/(E + m)`. Well conditioned
@@ -562,6 +586,9 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the speed `v` in m/s.
     ///
+    /// Accuracy, measured for inputs exact in the precision (every species, states from 1 eV to
+    /// 100 TeV, mpmath reference): every quantity within 2.06 eps in `f32`, 2.32 eps in `f64`.
+    ///
     /// `c − v = (C_HI − v) + C_LO` (exact near `c`: `c` is held as an exact two-part sum, so
     /// `f32` is not 10 m/s off), `1 − β = (c − v)/c`, `β = v/c`, then as
     /// [`try_from_beta`](Self::try_from_beta). Exact for the speed given; an error already in
@@ -594,6 +621,9 @@ impl<T: Real> Motion<T> {
     }
 
     /// Builds the state from the time of flight `t` (s) over a length `L` (m).
+    ///
+    /// Accuracy, measured for inputs exact in the precision (every species, states from 1 eV to
+    /// 100 TeV, mpmath reference): every quantity within 2.64 eps in `f32`, 2.25 eps in `f64`.
     ///
     /// `u = 1/β − 1 = (c t − L)/L`, where `c t − L` is formed from the exact product `c t`
     /// (Dekker's two-product, no fused multiply-add needed), then `β = 1/(1 + u)`,
@@ -722,6 +752,9 @@ impl<T: Real> Motion<T> {
 
     /// Total energy `E = T + m` in eV.
     ///
+    /// Accuracy, measured from the kinetic energy (every species, 1 eV to 100 TeV, mpmath
+    /// reference): worst 0.67 eps in `f32`, 0.64 eps in `f64`.
+    ///
     /// # Examples
     /// ```
     /// use fourforce::{Motion, Species};
@@ -737,6 +770,9 @@ impl<T: Real> Motion<T> {
 
     /// Lorentz factor `γ = E/m = 1 + T/m`.
     ///
+    /// Accuracy, measured from the kinetic energy (every species, 1 eV to 100 TeV, mpmath
+    /// reference): worst 0.83 eps in `f32`, 0.87 eps in `f64`.
+    ///
     /// # Examples
     /// ```
     /// use fourforce::{Motion, Species};
@@ -751,6 +787,9 @@ impl<T: Real> Motion<T> {
     }
 
     /// `γ − 1 = T/m`, held without cancellation (never formed from a stored `γ`).
+    ///
+    /// Accuracy, measured from the kinetic energy (every species, 1 eV to 100 TeV, mpmath
+    /// reference): worst 0.76 eps in `f32`, 0.67 eps in `f64`.
     ///
     /// # Examples
     /// ```
@@ -769,6 +808,10 @@ impl<T: Real> Motion<T> {
     /// `β = v/c = pc/E`, in `[0, 1)` (it may round to 1 in `f32` above `γ ≈ 4096`; use
     /// [`one_minus_beta`](Self::one_minus_beta) there).
     ///
+    /// Computed as `pc/E`, or as `1 − (1 − β)` once `1 − β < 1/4` (exact to half an ulp there,
+    /// and monotonic). Accuracy, measured from the kinetic energy (every species, 1 eV to
+    /// 100 TeV, mpmath reference): worst 1.36 eps in `f32`, 1.12 eps in `f64`.
+    ///
     /// # Examples
     /// ```
     /// use fourforce::{Motion, Species};
@@ -783,6 +826,9 @@ impl<T: Real> Motion<T> {
     }
 
     /// `1 − β = m²/(E(E + pc))`, held without cancellation.
+    ///
+    /// Accuracy, measured from the kinetic energy (every species, 1 eV to 100 TeV, mpmath
+    /// reference): worst 2.02 eps in `f32`, 2.32 eps in `f64`.
     ///
     /// # Examples
     /// ```
@@ -800,6 +846,9 @@ impl<T: Real> Motion<T> {
 
     /// `βγ = pc/m`, the spatial four-velocity in units of c.
     ///
+    /// Accuracy, measured from the kinetic energy (every species, 1 eV to 100 TeV, mpmath
+    /// reference): worst 1.21 eps in `f32`, 1.03 eps in `f64`.
+    ///
     /// # Examples
     /// ```
     /// use fourforce::{Motion, Species};
@@ -814,6 +863,9 @@ impl<T: Real> Motion<T> {
     }
 
     /// Momentum as `pc` in eV (so the momentum in eV/c): `√(T(T + 2m))`.
+    ///
+    /// Accuracy, measured from the kinetic energy (every species, 1 eV to 100 TeV, mpmath
+    /// reference): worst 0.78 eps in `f32`, 0.78 eps in `f64`.
     ///
     /// # Examples
     /// ```
@@ -847,7 +899,8 @@ impl<T: Real> Motion<T> {
     ///
     /// One multiplication by the folded constant `e/c = 5.344 286e-28` (exact `c` and `e`, SI
     /// 2019), so nothing is squared in SI units: the 5.4e-25 kg m/s of a 1 eV electron stays at
-    /// full precision in `f32`. Accuracy: that of [`momentum`](Self::momentum) plus 0.7 eps.
+    /// full precision in `f32`. Accuracy, measured from the kinetic energy (every species,
+    /// 1 eV to 100 TeV, mpmath reference): worst 1.16 eps in `f32`, 1.15 eps in `f64`.
     ///
     /// # Examples
     /// ```
@@ -866,6 +919,9 @@ impl<T: Real> Motion<T> {
 
     /// Speed `v = β c` in m/s, with `c = C_HI + C_LO` (exact in `f32` too).
     ///
+    /// Accuracy, measured from the kinetic energy (every species, 1 eV to 100 TeV, mpmath
+    /// reference): worst 1.71 eps in `f32`, 1.41 eps in `f64`.
+    ///
     /// # Examples
     /// ```
     /// use fourforce::{Motion, Species};
@@ -882,6 +938,8 @@ impl<T: Real> Motion<T> {
     /// Time of flight per metre, `1/(β c)` in s/m; `+∞` at rest.
     ///
     /// `1/β = E/pc`, or `1 + (1 − β)/β` above `β = 3/4` (monotonic in the energy there).
+    /// Accuracy, measured from the kinetic energy (every species, 1 eV to 100 TeV, mpmath
+    /// reference): worst 1.65 eps in `f32`, 1.34 eps in `f64`.
     ///
     /// # Examples
     /// ```
@@ -908,6 +966,9 @@ impl<T: Real> Motion<T> {
 
     /// Time of flight over `length_m` metres, in s: `L/(β c)`; `+∞` at rest (for `L > 0`).
     ///
+    /// Accuracy: that of [`flight_time_per_metre`](Self::flight_time_per_metre) plus half an
+    /// ulp for the product with `L`.
+    ///
     /// # Examples
     /// ```
     /// use fourforce::{Motion, Species};
@@ -923,6 +984,9 @@ impl<T: Real> Motion<T> {
 
     /// Magnetic rigidity `Bρ = p/|q| = pc/(c |Q|)` in T m (positive whatever the sign of the
     /// charge).
+    ///
+    /// Accuracy, measured from the kinetic energy (every species, 1 eV to 100 TeV, mpmath
+    /// reference): worst 1.54 eps in `f32`, 1.14 eps in `f64`.
     ///
     /// # Errors
     /// [`Error::ZeroCharge`] for a neutral species.
@@ -944,6 +1008,9 @@ impl<T: Real> Motion<T> {
     ///
     /// That form adds two positive terms (no cancellation) and uses `T` directly; it is `2T/|Q|`
     /// at low energy and `T/|Q|` at high energy.
+    /// Accuracy, measured from the kinetic energy (every species, 1 eV to 100 TeV, mpmath
+    /// reference): worst 0.99 eps in `f32`, 0.95 eps in `f64` (the plain `pc·β/Q` measured
+    /// 2.7 eps, published-checks §5).
     ///
     /// # Errors
     /// [`Error::ZeroCharge`] for a neutral species.
