@@ -204,6 +204,8 @@ macro_rules! properties {
                 assert_eq!(Motion::try_from_electric_rigidity(p, -1.0), Err(Error::NegativeMagnitude));
                 assert_eq!(Motion::try_from_speed(p, 3.0e8), Err(Error::SpeedNotBelowLight));
                 assert_eq!(Motion::try_from_speed(p, -3.0), Err(Error::NegativeMagnitude));
+                let crawl = F::MIN_POSITIVE * F::EPSILON; // the smallest positive subnormal
+                assert_eq!(Motion::try_from_speed(p, crawl), Err(Error::Overflow));
                 assert_eq!(Motion::try_from_flight_time(p, 1.0, 3.0e-9), Err(Error::FasterThanLight));
                 assert_eq!(Motion::try_from_flight_time(p, 0.0, 1.0), Err(Error::NonPositiveLength));
                 assert_eq!(Motion::try_from_flight_time(p, 1.0, -1.0), Err(Error::NonPositiveLength));
@@ -212,11 +214,17 @@ macro_rules! properties {
                 assert_eq!(neutral.magnetic_rigidity(), Err(Error::ZeroCharge));
                 assert_eq!(neutral.electric_rigidity(), Err(Error::ZeroCharge));
                 assert_sound(&neutral);
+                // Barely moving (beta ~ 1e-38 after a subnormal beta gamma): the flight time per
+                // metre 1/(beta c) fits, and is returned finite (it once overflowed through E/pc).
+                let crawl = Motion::try_from_beta_gamma(p, F::from_f64(1.0e-37)).unwrap();
+                assert!(crawl.flight_time_per_metre().is_finite());
+                assert!(crawl.flight_time(2.0).is_finite());
                 // At rest: a state, with zero speed and an infinite flight time, no NaN.
                 let rest = Motion::try_from_electric_rigidity(p, 0.0).unwrap();
                 assert_eq!(rest.kinetic_energy(), 0.0);
                 assert_eq!(rest.speed(), 0.0);
                 assert!(rest.flight_time_per_metre().is_infinite());
+                assert_eq!(rest.flight_time(0.0), 0.0);
                 assert_sound(&rest);
                 for zero in [
                     Motion::try_from_beta(p, 0.0), Motion::try_from_beta_gamma(p, 0.0),
