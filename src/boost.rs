@@ -98,10 +98,28 @@ impl<T: Real> Boost<T> {
         inv_gamma_plus_one: T::HALF,
     };
 
+    /// The largest Lorentz factor a boost accepts, 10¹² (a 100 TeV electron has γ ≈ 2·10⁸).
+    ///
+    /// Above it, products such as `γ²` of a composition or `γx⁰` of a large event would approach
+    /// the `f32` range; the constructors refuse such frames with [`Error::Overflow`].
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Boost, Error, ThreeVector};
+    /// assert_eq!(Boost::<f32>::gamma_limit(), 1e12);
+    /// let x = ThreeVector::new(1.0_f64, 0.0, 0.0);
+    /// assert_eq!(Boost::try_from_rapidity(x, 40.0), Err(Error::Overflow)); // γ ≈ 1.2·10¹⁷
+    /// ```
+    #[must_use]
+    #[inline]
+    pub fn gamma_limit() -> T {
+        T::from_f64(1e12)
+    }
+
     /// Builds the boost from the frame's spatial four-velocity `u = γβ` (units of c).
     fn from_u(u: ThreeVector<T>) -> Result<Self, Error> {
         let gamma = T::ONE.hypot(u.norm());
-        if !gamma.is_finite() {
+        if !gamma.is_finite() || gamma > Self::gamma_limit() {
             return Err(Error::Overflow);
         }
         Ok(Self {
@@ -186,7 +204,8 @@ impl<T: Real> Boost<T> {
     ///
     /// # Errors
     /// [`Error::NonFinite`] for non-finite input; [`Error::ZeroDirection`] for a zero direction;
-    /// [`Error::Overflow`] when `cosh η` overflows (|η| above about 89 in `f32`).
+    /// [`Error::Overflow`] when γ = `cosh η` exceeds [`gamma_limit`](Self::gamma_limit) (|η| above
+    /// about 28.3).
     ///
     /// # Examples
     /// ```
@@ -215,7 +234,8 @@ impl<T: Real> Boost<T> {
     /// [`FourVector::try_four_velocity_from_momentum`]).
     ///
     /// # Errors
-    /// [`Error::NonFinite`] for a non-finite spatial part; [`Error::Overflow`] if γ overflows.
+    /// [`Error::NonFinite`] for a non-finite spatial part; [`Error::Overflow`] if γ exceeds
+    /// [`gamma_limit`](Self::gamma_limit).
     ///
     /// # Examples
     /// ```
@@ -661,8 +681,10 @@ impl<T: Real> LorentzTransform<T> {
     }
 
     /// The largest entry of `Λᵀ g Λ − g`, divided by `(Λ⁰₀)²`: 0 for an exact Lorentz
-    /// transformation; a few eps after rounding. An on-device sanity figure for long chains of
-    /// compositions. `+∞` when an entry is not finite.
+    /// transformation. An on-device sanity figure for long chains of compositions: after
+    /// composing boosts of Lorentz factors γ₁, γ₂, …, expect a few eps × `(γ₁γ₂…)²/(Λ⁰₀)²` (the
+    /// products cancel from that scale when the boosts nearly undo each other). `+∞` when an
+    /// entry is not finite.
     ///
     /// # Examples
     /// ```

@@ -88,7 +88,6 @@ macro_rules! against_nalgebra {
             }
 
             proptest! {
-                #![proptest_config(ProptestConfig::with_cases(256))]
 
                 #[test]
                 fn contraction_matches_the_full_product(e in vec3(1e7), b in vec3(2.0), u in vec3(30.0)) {

@@ -4,7 +4,8 @@
 //!
 //! The identities are textbook (Jackson 3rd ed. §11.3, §11.9-11.10, §12.1, from memory); the
 //! tolerances are in eps of the format times the natural scale of each quantity, since a
-//! component can cancel far below it.
+//! component can cancel far below it. Case counts follow proptest's default (256) or the
+//! `PROPTEST_CASES` environment variable.
 // Reference values are typed with all their digits; tests compare floats exactly on purpose.
 #![allow(clippy::excessive_precision, clippy::float_cmp)]
 
@@ -41,7 +42,6 @@ macro_rules! properties {
             }
 
             proptest! {
-                #![proptest_config(ProptestConfig::with_cases(512))]
 
                 #[test]
                 fn field_tensor_is_antisymmetric(e in vec3(1e7), b in vec3(2.0)) {
@@ -152,7 +152,9 @@ macro_rules! properties {
                     let g = (ba.gamma() * bc.gamma()).to_f64();
                     let scale = 2.0 * g * (t.abs() + wide3(x.space).norm());
                     prop_assert!(eps_four(both.apply(x), wide4(bc.apply(ba.apply(x))).to_array(), scale) <= 16.0);
-                    prop_assert!(both.metric_deviation().to_f64() <= 32.0 * EPS);
+                    // Opposite boosts compose to nearly the identity by cancelling from g to 1:
+                    // the rounding stays on the scale g².
+                    prop_assert!(both.metric_deviation().to_f64() <= 32.0 * EPS * g * g);
                     // Λ = R·B with R a rotation: R leaves time alone.
                     let r = both.rotation_part().unwrap().to_matrix();
                     prop_assert!((r[0][0].to_f64() - 1.0).abs() <= 64.0 * EPS * g * g);
@@ -196,7 +198,6 @@ macro_rules! properties {
                 use fourforce::ThreeVector;
 
                 proptest! {
-                    #![proptest_config(ProptestConfig::with_cases(256))]
 
                     #[test]
                     fn boost_matrix_and_boost_agree(w in vec3(5.0), x in vec3(10.0), t in -10.0..10.0_f64, e in vec3(1e7), b in vec3(2.0)) {

@@ -171,11 +171,9 @@ macro_rules! published {
                 let e = v(0.0, 149_896_080.0, 0.0);
                 let b = v(0.0, 0.0, 0.5);
                 let s = FieldTensor::try_scalar_invariant_of(e, b).unwrap();
-                assert!(
-                    eps_rel(s, 9.940_205_096_516_152e-7) <= 1.5,
-                    "{}",
-                    eps_rel(s, 9.940_205_096_516_152e-7)
-                );
+                let err = eps_rel(s, 9.940_205_096_516_152e-7);
+                println!("near-null invariant, {}: {err:.3} eps", stringify!($r));
+                assert!(err <= 1.5, "{err}");
                 let naive =
                     R::TWO * (b.z * b.z - e.y * e.y / (R::SPEED_OF_LIGHT * R::SPEED_OF_LIGHT));
                 if R::MANTISSA_DIGITS == 24 {
