@@ -788,3 +788,86 @@ fn neutral_species_drifts_straight() {
     assert_eq!(p.momentum(), v3(0.0, 0.75, 0.0));
     assert!(rel(p.position().y, 0.6 * C * 1.0e-7) < 1e-14);
 }
+
+// ------------------------------------------------------------------------------------------------
+// Property tests of the invariants
+
+fn one_step_norm_change<T: Real, P: Pusher<T>>(u: [f64; 3], b: [f64; 3], omega_dt: f64) -> f64 {
+    let pusher = P::try_new(Species::<T>::PROTON, T::from_f64(1.0e-9)).unwrap();
+    let field = LocalField::new(
+        ThreeVector::ZERO,
+        v3::<T>(b[0], b[1], b[2]) * (T::from_f64(omega_dt / 2.0) / pusher.factors().rotation()),
+    );
+    let mut p = Particle::try_new(ThreeVector::ZERO, v3::<T>(u[0], u[1], u[2]), T::ZERO).unwrap();
+    let n0 = p.momentum().norm().to_f64();
+    pusher.try_step(&mut p, &field).unwrap();
+    (p.momentum().norm().to_f64() / n0 - 1.0).abs() / T::EPSILON.to_f64()
+}
+
+fn force_free_random<T: Real, P: Pusher<T>>(beta: f64, b_dir: [f64; 3], omega_dt: f64) -> f64 {
+    let pusher = P::try_new(Species::<T>::PROTON, T::from_f64(1.0e-9)).unwrap();
+    let b_unit = ThreeVector::new(b_dir[0], b_dir[1], b_dir[2])
+        .try_unit()
+        .unwrap();
+    // a velocity direction perpendicular to B
+    let helper = if b_unit.x.abs() < 0.9 {
+        ThreeVector::new(1.0, 0.0, 0.0)
+    } else {
+        ThreeVector::new(0.0, 1.0, 0.0)
+    };
+    let v_unit = helper.cross(b_unit).try_unit().unwrap();
+    let gamma = 1.0 / ((1.0 - beta) * (1.0 + beta)).sqrt();
+    let u0 = v_unit * (gamma * beta);
+    let b_mag = omega_dt / 2.0 / pusher.factors().rotation().to_f64();
+    let b_vec = b_unit * b_mag;
+    // E = -v x B, so that E + v x B = 0 (the particle moves at the E x B velocity)
+    let e_vec = -(v_unit * (beta * T::SPEED_OF_LIGHT.to_f64())).cross(b_vec);
+    let field = LocalField::new(
+        v3::<T>(e_vec.x, e_vec.y, e_vec.z),
+        v3::<T>(b_vec.x, b_vec.y, b_vec.z),
+    );
+    let start = v3::<T>(u0.x, u0.y, u0.z);
+    let mut p = Particle::try_new(ThreeVector::ZERO, start, T::ZERO).unwrap();
+    pusher.try_run(&mut p, &field, 20).unwrap();
+    (p.momentum() - start).norm().to_f64() / start.norm().to_f64()
+}
+
+proptest::proptest! {
+    // |u| is kept by one step in any pure magnetic field, to rounding (published-checks §7.2:
+    // all three conserve energy when E = 0 [HC17 abstract]): at most 8 eps measured bar.
+    #[test]
+    fn any_pure_magnetic_step_keeps_the_norm(
+        u in proptest::array::uniform3(-30.0_f64..30.0),
+        b in proptest::array::uniform3(-1.0_f64..1.0),
+        omega_dt in 1.0e-3_f64..5.0,
+    ) {
+        proptest::prop_assume!(u.iter().map(|x| x * x).sum::<f64>() > 1e-4);
+        proptest::prop_assume!(b.iter().map(|x| x * x).sum::<f64>() > 1e-2);
+        for change in [
+            one_step_norm_change::<f64, Boris<f64>>(u, b, omega_dt),
+            one_step_norm_change::<f64, Vay<f64>>(u, b, omega_dt),
+            one_step_norm_change::<f64, HigueraCary<f64>>(u, b, omega_dt),
+            one_step_norm_change::<f32, Boris<f32>>(u, b, omega_dt),
+            one_step_norm_change::<f32, Vay<f32>>(u, b, omega_dt),
+            one_step_norm_change::<f32, HigueraCary<f32>>(u, b, omega_dt),
+        ] {
+            proptest::prop_assert!(change <= 8.0, "{change} eps");
+        }
+    }
+
+    // Vay and Higuera-Cary keep a particle at the E x B velocity for any direction, speed and
+    // step (published-checks §7.4 [V08; HC17 abstract]); f64, 20 steps, gamma up to 70.
+    #[test]
+    fn any_force_free_motion_is_kept_by_vay_and_higuera_cary(
+        beta in 0.0_f64..0.9999,
+        b_dir in proptest::array::uniform3(-1.0_f64..1.0),
+        omega_dt in 1.0e-2_f64..10.0,
+    ) {
+        proptest::prop_assume!(b_dir.iter().map(|x| x * x).sum::<f64>() > 1e-2);
+        proptest::prop_assume!(beta > 1e-3);
+        let vay = force_free_random::<f64, Vay<f64>>(beta, b_dir, omega_dt);
+        let hc = force_free_random::<f64, HigueraCary<f64>>(beta, b_dir, omega_dt);
+        proptest::prop_assert!(vay <= 1e-11, "Vay {vay:e}");
+        proptest::prop_assert!(hc <= 1e-11, "Higuera-Cary {hc:e}");
+    }
+}

@@ -569,7 +569,7 @@ pub trait Pusher<T: Real>: Sized {
         particle: &mut Particle<T>,
         source: &S,
     ) -> Result<(), Error> {
-        let (momentum, gamma) = self.try_half_push(particle, source, -T::HALF)?;
+        let (momentum, gamma) = half_push(self, particle, source, -T::HALF)?;
         particle.momentum = momentum;
         particle.gamma = gamma;
         Ok(())
@@ -598,28 +598,28 @@ pub trait Pusher<T: Real>: Sized {
         particle: &Particle<T>,
         source: &S,
     ) -> Result<(ThreeVector<T>, T), Error> {
-        self.try_half_push(particle, source, T::HALF)
+        half_push(self, particle, source, T::HALF)
     }
+}
 
-    /// A momentum update over `fraction · Δt` (±½) with the fields at the particle's place.
-    #[doc(hidden)]
-    fn try_half_push<S: FieldSource<T>>(
-        &self,
-        particle: &Particle<T>,
-        source: &S,
-        fraction: T,
-    ) -> Result<(ThreeVector<T>, T), Error> {
-        let field = source.field_at(particle.position, particle.time());
-        if !field.is_finite() {
-            return Err(Error::NonFinite);
-        }
-        let half = Self::from_factors(self.factors().scaled(fraction));
-        let (momentum, gamma) = half.push_momentum(particle.momentum, particle.gamma, &field);
-        if momentum.is_finite() && gamma.is_finite() {
-            Ok((momentum, gamma))
-        } else {
-            Err(Error::Overflow)
-        }
+/// A momentum update over `fraction · Δt` (±½, exact scalings) with the fields at the
+/// particle's position and time.
+fn half_push<T: Real, P: Pusher<T>, S: FieldSource<T>>(
+    pusher: &P,
+    particle: &Particle<T>,
+    source: &S,
+    fraction: T,
+) -> Result<(ThreeVector<T>, T), Error> {
+    let field = source.field_at(particle.position, particle.time());
+    if !field.is_finite() {
+        return Err(Error::NonFinite);
+    }
+    let half = P::from_factors(pusher.factors().scaled(fraction));
+    let (momentum, gamma) = half.push_momentum(particle.momentum, particle.gamma, &field);
+    if momentum.is_finite() && gamma.is_finite() {
+        Ok((momentum, gamma))
+    } else {
+        Err(Error::Overflow)
     }
 }
 
