@@ -132,8 +132,8 @@ pub fn electric_bending_radius<T: Real>(motion: &Motion<T>, field_v_per_m: T) ->
 /// Revolution (cyclotron) frequency in a magnetic field, `f = |Q| c² |B| / (2π E)` in Hz.
 ///
 /// `E = γ mc²` is the total energy in eV; `c²/(2π)` is one folded constant (exact `c`).
-/// Measured worst error over the reference grid: see the README accuracy table (row
-/// "cyclotron frequency per tesla").
+/// Accuracy, measured against mpmath over every species and 1 eV to 100 TeV (from the kinetic
+/// energy, per tesla): worst 1.09 eps in `f32`, 1.10 eps in `f64`; one rounding more for `B`.
 ///
 /// # Errors
 /// [`Error::ZeroCharge`]; [`Error::ZeroField`] for `B = 0`; [`Error::NonFinite`].
