@@ -1,0 +1,261 @@
+//! Door: the beam-line quantities of `optics` (every function), on a state built from outside
+//! numbers, with outside fields, lengths, angles and potentials.
+#![no_main]
+
+use fourforce::{Error, Motion, Species, optics};
+use fuzzkit::{Bits, Input, both_precisions, check_motion, known};
+use libfuzzer_sys::fuzz_target;
+
+fn species<T: Bits>(input: &mut Input<'_>) -> Option<Species<T>> {
+    Some(match input.u8() % 8 {
+        0 => Species::ELECTRON,
+        1 => Species::PROTON,
+        2 => Species::ALPHA,
+        3 => Species::ANTIPROTON,
+        4 => Species::new(T::NEUTRON_REST_ENERGY, T::ZERO),
+        _ => Species::try_new(input.real(), input.real()).ok()?,
+    })
+}
+
+/// Checks the refusal of a function against what its documentation lists.
+#[track_caller]
+fn refusal(what: &str, e: Error, allowed: &[Error]) {
+    assert!(
+        allowed.contains(&e),
+        "{what}: refused with {e:?}, documented {allowed:?}"
+    );
+}
+
+fn run<T: Bits>(input: &mut Input<'_>) {
+    let Some(s) = species::<T>(input) else { return };
+    if known::tiny_rest_energy(s.rest_energy()) {
+        return;
+    }
+    let Ok(m) = Motion::try_from_kinetic_energy(s, input.real::<T>().abs()) else {
+        return;
+    };
+    let f = input.u8() % 17;
+    let (a, b, c) = (input.real::<T>(), input.real::<T>(), input.real::<T>());
+    let charged = s.charge() != T::ZERO;
+    let finite_args = a.is_finite() && b.is_finite() && c.is_finite();
+    use Error::*;
+    match f {
+        // Magnitudes: positive and finite when accepted.
+        0 | 1 | 2 => {
+            let r = match f {
+                0 => optics::bending_radius(&m, a),
+                1 => optics::electric_bending_radius(&m, a),
+                _ => optics::revolution_frequency(&m, a),
+            };
+            match r {
+                Ok(v) => {
+                    assert!(
+                        charged && a.is_finite() && a != T::ZERO,
+                        "f{f}: accepted field {a:?}"
+                    );
+                    assert!(
+                        v.is_finite() && v >= T::ZERO,
+                        "f{f}({a:?}) = {v:?} for {m:?}"
+                    );
+                }
+                Err(e) => {
+                    refusal(
+                        "magnitude",
+                        e,
+                        &[ZeroCharge, ZeroField, NonFinite, Overflow],
+                    );
+                    if e == Overflow {
+                        // Only when the quotient truly does not fit.
+                        assert!(charged && a.is_finite() && a != T::ZERO);
+                    }
+                    if !charged {
+                        assert!(e == ZeroCharge || e == ZeroField || e == NonFinite);
+                    }
+                }
+            }
+        }
+        3 => match optics::lag_behind_light(&m, a) {
+            Ok(v) => {
+                assert!(a.is_finite() && a > T::ZERO, "lag accepted length {a:?}");
+                assert!(
+                    v.is_finite() && v >= T::ZERO,
+                    "lag({a:?}) = {v:?} for {m:?}"
+                );
+            }
+            Err(e) => refusal("lag", e, &[NonPositiveLength, NonFinite, Overflow]),
+        },
+        4 => {
+            let Ok(m2) = Motion::try_from_kinetic_energy(s, b.abs()) else {
+                return;
+            };
+            match optics::flight_time_difference(&m, &m2, a) {
+                Ok(v) => {
+                    assert!(a.is_finite() && a > T::ZERO);
+                    assert!(v.is_finite(), "difference {v:?}");
+                    // Positive when the first state is slower.
+                    if m.kinetic_energy() < m2.kinetic_energy() {
+                        assert!(v >= T::ZERO, "slower state arrives first: {v:?}");
+                    }
+                }
+                Err(e) => refusal("difference", e, &[NonPositiveLength, NonFinite, Overflow]),
+            }
+        }
+        5 => match optics::energy_gain(s, a) {
+            Ok(v) => {
+                assert!(a.is_finite());
+                if !known::UNCHECKED_PRODUCTS || (s.charge() * a).is_finite() {
+                    assert!(v.is_finite(), "energy_gain({a:?}) = {v:?}");
+                }
+            }
+            Err(e) => refusal("gain", e, &[NonFinite]),
+        },
+        6 => match optics::after_potential_difference(&m, a) {
+            Ok(next) => {
+                assert!(a.is_finite());
+                check_motion(&next, 0, next.kinetic_energy(), T::ONE);
+            }
+            Err(e) => refusal("after", e, &[NonFinite, NegativeEnergy, Overflow]),
+        },
+        7 => match optics::kick_angle(&m, a) {
+            Ok(v) => {
+                assert!(charged && a.is_finite());
+                assert!(v.is_finite(), "kick {v:?}");
+            }
+            Err(e) => refusal("kick", e, &[ZeroCharge, NonFinite, Overflow]),
+        },
+        8 => match optics::kick_angle_hard_edge(&m, a, b) {
+            Ok(v) => {
+                assert!(charged && a.is_finite() && b.is_finite() && b > T::ZERO);
+                within_half_pi(v);
+            }
+            Err(e) => refusal(
+                "hard edge",
+                e,
+                &[ZeroCharge, NonFinite, NonPositiveLength, AngleOutOfRange],
+            ),
+        },
+        9 => match optics::integrated_field_for_angle(&m, a) {
+            Ok(v) => {
+                assert!(charged && a.is_finite());
+                if !known::UNCHECKED_PRODUCTS {
+                    assert!(v.is_finite(), "integrated field {v:?}");
+                }
+            }
+            Err(e) => refusal("integrated field", e, &[ZeroCharge, NonFinite]),
+        },
+        10 => match optics::field_for_angle_hard_edge(&m, a, b) {
+            Ok(v) => {
+                assert!(charged && a.is_finite() && b > T::ZERO && a.abs() <= T::PI * T::HALF);
+                assert!(v.is_finite());
+            }
+            Err(e) => refusal(
+                "dipole field",
+                e,
+                &[
+                    ZeroCharge,
+                    NonFinite,
+                    NonPositiveLength,
+                    AngleOutOfRange,
+                    Overflow,
+                ],
+            ),
+        },
+        11 => match optics::electrostatic_kick_angle(&m, a, b) {
+            Ok(v) => {
+                assert!(charged && a.is_finite() && b > T::ZERO);
+                assert!(v.is_finite());
+            }
+            Err(e) => refusal(
+                "deflector angle",
+                e,
+                &[ZeroCharge, NonFinite, NonPositiveLength, Overflow],
+            ),
+        },
+        12 => match optics::deflector_field_for_angle(&m, a, b) {
+            Ok(v) => {
+                assert!(charged && a.is_finite() && b > T::ZERO);
+                if !known::UNCHECKED_PRODUCTS {
+                    assert!(v.is_finite(), "deflector field {v:?}");
+                }
+            }
+            Err(e) => refusal(
+                "deflector field",
+                e,
+                &[ZeroCharge, NonFinite, NonPositiveLength, Overflow],
+            ),
+        },
+        13 => match optics::energy_from_flight_time(s, a, b) {
+            Ok(next) => check_motion(&next, 13, b, a),
+            Err(e) => refusal(
+                "from flight time",
+                e,
+                &[NonFinite, NonPositiveLength, FasterThanLight, Overflow],
+            ),
+        },
+        14 => match optics::energy_from_centring_field(s, a, b) {
+            Ok(next) => {
+                assert!(charged && a != T::ZERO && b > T::ZERO);
+                check_motion(&next, 10, a, b);
+            }
+            Err(e) => refusal(
+                "from centring field",
+                e,
+                &[
+                    ZeroCharge,
+                    ZeroField,
+                    NonFinite,
+                    NonPositiveLength,
+                    Overflow,
+                ],
+            ),
+        },
+        15 => match optics::energy_from_dipole(s, a, b, c) {
+            Ok(next) => {
+                assert!(charged && a != T::ZERO && b > T::ZERO && c > T::ZERO);
+                check_motion(&next, 10, a, b);
+            }
+            Err(e) => refusal(
+                "from dipole",
+                e,
+                &[
+                    ZeroCharge,
+                    ZeroField,
+                    NonFinite,
+                    NonPositiveLength,
+                    AngleOutOfRange,
+                    Overflow,
+                ],
+            ),
+        },
+        _ => match optics::energy_from_deflector(s, a, b) {
+            Ok(next) => {
+                assert!(charged && a != T::ZERO && b > T::ZERO);
+                check_motion(&next, 11, a, b);
+            }
+            Err(e) => refusal(
+                "from deflector",
+                e,
+                &[
+                    ZeroCharge,
+                    ZeroField,
+                    NonFinite,
+                    NonPositiveLength,
+                    Overflow,
+                ],
+            ),
+        },
+    }
+    // A non-finite argument the function reads is never accepted (checked above per function);
+    // the remaining arguments are unused by some functions.
+    let _ = finite_args;
+}
+
+#[track_caller]
+fn within_half_pi<T: Bits>(v: T) {
+    assert!(
+        v.is_finite() && v.abs() <= T::PI * T::HALF + T::EPSILON,
+        "angle {v:?}"
+    );
+}
+
+fuzz_target!(|data: &[u8]| both_precisions!(data, run));
