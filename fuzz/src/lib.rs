@@ -173,6 +173,22 @@ pub mod known {
     /// `optics::energy_gain`, `integrated_field_for_angle` and `deflector_field_for_angle`
     /// return `Ok(±inf)` when their product overflows, instead of `Err(Error::Overflow)`.
     pub const UNCHECKED_PRODUCTS: bool = true;
+    /// `FourVector::four_velocity_deviation` is `+inf` for a four-velocity with `u⁰` above
+    /// about 1.8e19 (f32) or 1.3e154 (f64), though `try_four_velocity_from_momentum` accepts
+    /// such four-velocities: the exact squares overflow.
+    pub const DEVIATION_OVERFLOW: bool = true;
+    /// `FourVector::try_four_velocity_from_momentum` returns `Ok` with `u⁰ = +inf` when every
+    /// component of `pc/m` is finite but `|pc/m|` is not (for example three components of
+    /// -2.56e38 in f32), instead of `Err(Error::Overflow)`.
+    pub const FOUR_VELOCITY_TIME_INF: bool = true;
+    /// `FieldTensor::try_from_fields` (and the two `try_*_invariant_of`) refuse a finite `B`
+    /// whose `cB` overflows (|B| above about 1.1e30 T in f32) with `NonFinite` instead of the
+    /// documented `Overflow`.
+    pub const FIELD_CB_NON_FINITE: bool = true;
+    /// `Boost::rapidity` is `+inf` once `|u|²` overflows (|u| above about 1.8e19 in f32,
+    /// rapidity above about 44.7), though `try_from_rapidity` accepts rapidities up to about 89
+    /// and the true rapidity is finite.
+    pub const RAPIDITY_OVERFLOW: bool = true;
 
     /// True when `rest` is below the square root of the smallest normal number (with a margin):
     /// the species the `TINY_REST_ENERGY_NAN` finding concerns.
