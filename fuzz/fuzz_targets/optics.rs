@@ -41,7 +41,7 @@ fn run<T: Bits>(input: &mut Input<'_>) {
     use Error::*;
     match f {
         // Magnitudes: positive and finite when accepted.
-        0 | 1 | 2 => {
+        0..=2 => {
             let r = match f {
                 0 => optics::bending_radius(&m, a),
                 1 => optics::electric_bending_radius(&m, a),
