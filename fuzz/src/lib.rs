@@ -189,6 +189,15 @@ pub mod known {
     /// rapidity above about 44.7), though `try_from_rapidity` accepts rapidities up to about 89
     /// and the true rapidity is finite.
     pub const RAPIDITY_OVERFLOW: bool = true;
+    /// `EnergyWindow` verdicts carry a deviation `(T − T_nom)/T_nom` of `±inf` when the quotient
+    /// overflows (a subnormal nominal energy).
+    pub const VERDICT_DEVIATION_OVERFLOW: bool = true;
+    /// `EnergyWindow::try_around` refuses a finite nominal energy whose `nominal (1 + tol)`
+    /// overflows with `NonFinite` instead of `Overflow` or `InvalidRange`.
+    pub const WINDOW_AROUND_NON_FINITE: bool = true;
+    /// `MovingWindow` statistics of finite readings near `MAX` are `inf` or NaN (sums of the
+    /// readings or of their squared deviations overflow).
+    pub const WINDOW_STATISTICS_OVERFLOW: bool = true;
 
     /// True when `rest` is below the square root of the smallest normal number (with a margin):
     /// the species the `TINY_REST_ENERGY_NAN` finding concerns.
