@@ -145,6 +145,32 @@ fn unsigned_zero<T: Real>(x: T) -> T {
 }
 
 impl<T: Real> Motion<T> {
+    /// The state of a particle at rest, `const` so that a `static` can hold it.
+    ///
+    /// `T = 0`, `γ = 1`, `β = 0`, `1 − β = 1`, `pc = 0`, `E = m`; the flight times are `+∞`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// static SOURCE: Motion<f32> = Motion::at_rest(Species::PROTON);
+    /// assert_eq!(SOURCE.gamma(), 1.0);
+    /// assert_eq!(SOURCE.total_energy(), Species::<f32>::PROTON.rest_energy());
+    /// ```
+    #[must_use]
+    pub const fn at_rest(species: Species<T>) -> Self {
+        Self {
+            species,
+            kinetic: T::ZERO,
+            gamma_minus_one: T::ZERO,
+            gamma: T::ONE,
+            total: species.rest_energy(),
+            momentum: T::ZERO,
+            beta_gamma: T::ZERO,
+            beta: T::ZERO,
+            one_minus_beta: T::ONE,
+        }
+    }
+
     /// Builds the state from the kinetic energy `T` in eV.
     ///
     /// The reference constructor: every quantity within 2.48 eps in `f32` and 2.32 eps in `f64`
@@ -1082,6 +1108,17 @@ mod tests {
     use super::*;
 
     static AT_REST: [f32; 1] = [0.0];
+    static HELD: [Motion<f64>; 2] = [
+        Motion::at_rest(Species::ELECTRON),
+        Motion::at_rest(Species::ALPHA),
+    ];
+
+    #[test]
+    fn a_static_holds_states_and_at_rest_matches_the_constructor() {
+        for m in HELD {
+            assert_eq!(Ok(m), Motion::try_from_kinetic_energy(m.species(), 0.0));
+        }
+    }
 
     #[test]
     fn two_product_is_exact() {

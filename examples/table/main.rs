@@ -51,7 +51,7 @@ OUTPUT (standard output), CSV with this header:
     p_MeV_per_c         momentum
     brho_Tm, erho_V     magnetic rigidity (T m) and electric rigidity (V), for |charge|
     v_m_per_s           speed
-    tof_ns_per_m        time of flight per metre, ns/m
+    tof_ns_per_m        time of flight per metre, ns/m (inf for a particle at rest, T = 0)
     cyclotron_Hz_per_T  revolution frequency in a 1 T field, Hz
     Every value is within 8 eps of the exact value (measured worst: under 3 eps) for inputs
     exact in the precision.
@@ -107,9 +107,14 @@ fn run<T: Real + FromStr + LowerExp>() -> io::Result<bool> {
     let mut err = io::stderr().lock();
     writeln!(out, "{HEADER}")?;
     let mut all_good = true;
-    for (i, line) in io::stdin().lock().lines().enumerate() {
-        let line = line?;
-        match row::<T>(&line) {
+    for (i, bytes) in io::stdin().lock().split(b'\n').enumerate() {
+        let bytes = bytes?;
+        let Ok(line) = std::str::from_utf8(&bytes) else {
+            all_good = false;
+            writeln!(err, "line {}: not valid UTF-8", i + 1)?;
+            continue;
+        };
+        match row::<T>(line) {
             Ok(Some(r)) => writeln!(out, "{r}")?,
             Ok(None) => {}
             Err(reason) => {

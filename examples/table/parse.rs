@@ -125,7 +125,12 @@ pub fn parse_line<T: Real + FromStr>(line: &str) -> Result<Option<Line<'_, T>>, 
     Ok(Some(Line {
         name,
         species,
-        kinetic_mev,
+        // -0 is a particle at rest: echo it as 0.
+        kinetic_mev: if kinetic_mev == T::ZERO {
+            T::ZERO
+        } else {
+            kinetic_mev
+        },
     }))
 }
 
