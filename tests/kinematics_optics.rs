@@ -294,3 +294,83 @@ fn typed_errors_at_the_edges_both_precisions() {
     edges::<f32>();
     edges::<f64>();
 }
+
+mod properties {
+    //! Round trips and symmetries of the optics functions over the whole range (proptest).
+    use super::*;
+    use proptest::prelude::*;
+
+    macro_rules! optics_properties {
+        ($name:ident, $t:ty) => {
+            mod $name {
+                use super::*;
+                type F = $t;
+
+                fn pick(i: u8) -> Species<F> {
+                    [Species::ELECTRON, Species::PROTON, Species::MUON, Species::ALPHA, Species::ANTIPROTON][usize::from(i % 5)]
+                }
+
+                proptest! {
+                    #![proptest_config(ProptestConfig::with_cases(1000))]
+
+                    #[test]
+                    fn centring_field_and_radius_invert(i in 0u8..5, x in 0.0f64..14.0, b in 0.01f64..10.0) {
+                        let s = pick(i);
+                        let m = state(s, 10f64.powf(x));
+                        let b = F::from_f64(b);
+                        let rho = optics::bending_radius(&m, b).unwrap();
+                        let back = optics::energy_from_centring_field(s, b, rho).unwrap();
+                        // B rho = B * rho carries 3 roundings; T has condition <= 2 in B rho.
+                        prop_assert!(eps_err(back.momentum(), m.momentum().to_f64()) <= 8.0);
+                    }
+
+                    #[test]
+                    fn hard_edge_angle_and_field_invert(i in 0u8..5, x in 3.0f64..14.0, frac in 0.001f64..0.9) {
+                        let s = pick(i);
+                        let m = state(s, 10f64.powf(x));
+                        let l = F::from_f64(0.5);
+                        let brho = m.magnetic_rigidity().unwrap();
+                        let b = F::from_f64(frac) * brho / l;
+                        let theta = optics::kick_angle_hard_edge(&m, b, l).unwrap();
+                        prop_assert!(theta.abs() <= F::PI * F::HALF);
+                        let back = optics::field_for_angle_hard_edge(&m, theta, l).unwrap();
+                        // asin then sin: each within about 1 ulp (libm).
+                        prop_assert!(eps_err(back, b.to_f64()) <= 16.0, "{} vs {}", back, b);
+                    }
+
+                    #[test]
+                    fn flight_time_difference_is_antisymmetric_and_consistent(i in 0u8..5, j in 0u8..5, x in 0.0f64..14.0, y in 0.0f64..14.0) {
+                        let (a, b) = (state(pick(i), 10f64.powf(x)), state(pick(j), 10f64.powf(y)));
+                        let l = F::from_f64(7.5);
+                        let ab = optics::flight_time_difference(&a, &b, l).unwrap();
+                        let ba = optics::flight_time_difference(&b, &a, l).unwrap();
+                        prop_assert_eq!(ab, -ba);
+                        // Against the plain difference of the two flight times, in f64, where that
+                        // difference is well conditioned (at most 1/100 of cancellation).
+                        let (ta, tb) = (a.flight_time(l).to_f64(), b.flight_time(l).to_f64());
+                        if (ta - tb).abs() > 0.01 * ta.max(tb) {
+                            let rel = ((ab.to_f64() - (ta - tb)) / (ta - tb)).abs();
+                            prop_assert!(rel <= 400.0 * F::EPSILON.to_f64(), "{} vs {}", ab, ta - tb);
+                        }
+                    }
+
+                    #[test]
+                    fn kicks_scale_with_field_and_flip_with_charge(x in 0.0f64..14.0, bl in -1.0f64..1.0) {
+                        let p = state(Species::<F>::PROTON, 10f64.powf(x));
+                        let pbar = state(Species::<F>::ANTIPROTON, 10f64.powf(x));
+                        let bl = F::from_f64(bl);
+                        let k = optics::kick_angle(&p, bl).unwrap();
+                        prop_assert_eq!(k, -optics::kick_angle(&pbar, bl).unwrap());
+                        let need = optics::integrated_field_for_angle(&p, k).unwrap();
+                        if bl != F::ZERO {
+                            prop_assert!(eps_err(need, bl.to_f64()) <= 4.0);
+                        }
+                    }
+                }
+            }
+        };
+    }
+
+    optics_properties!(in_f32, f32);
+    optics_properties!(in_f64, f64);
+}
