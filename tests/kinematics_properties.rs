@@ -121,6 +121,25 @@ macro_rules! properties {
                     }
                 }
 
+                // A gamma or beta that was itself rounded (read from another state) carries its
+                // rounding into T amplified by gamma/(gamma - 1) (from gamma) or
+                // gamma^3 beta^2/(gamma - 1) (from beta). Where those stay near 2 (gamma >= 2;
+                // beta <= 0.3), T still comes back within the 8 eps bound.
+                #[test]
+                fn rounded_gamma_and_beta_where_well_conditioned(pick in 0u8..12, m_exp in 5.0f64..11.4, q in -8i32..92, x in 0.0f64..14.0) {
+                    let s = species::<F>(pick, m_exp, q);
+                    let t = F::from_f64(10f64.powf(x));
+                    let base = Motion::try_from_kinetic_energy(s, t).unwrap();
+                    if base.gamma() >= F::TWO {
+                        let m = Motion::try_from_gamma(s, base.gamma()).unwrap();
+                        prop_assert!(rel(m.kinetic_energy(), t) <= 8.0, "from gamma {:?}", base);
+                    }
+                    if base.beta() <= F::from_f64(0.3) {
+                        let m = Motion::try_from_beta(s, base.beta()).unwrap();
+                        prop_assert!(rel(m.kinetic_energy(), t) <= 8.0, "from beta {:?}", base);
+                    }
+                }
+
                 #[test]
                 fn invariants(pick in 0u8..12, m_exp in 5.0f64..11.4, q in -8i32..92, x in 0.0f64..14.0) {
                     let s = species::<F>(pick, m_exp, q);
