@@ -13,7 +13,10 @@
 #[allow(dead_code)] // the firmware's nominal energy is not used here
 mod control;
 
-use control::{BOUNDS_EPS, Machine, OUTPUT_NAMES, OUTPUTS, Reading, cycle, deviation_eps};
+use control::{
+    BOUNDS_EPS, LoopState, Machine, OUTPUT_NAMES, OUTPUTS, Reading, cycle, deviation_eps,
+    test_readback,
+};
 use fourforce::{Motion, Species};
 use std::process::ExitCode;
 
@@ -40,29 +43,44 @@ fn main() -> ExitCode {
     let (mut cycles, mut refused, mut mismatches) = (0u32, 0u32, 0u32);
     for (name, s) in species {
         for t_ev in energies() {
-            // The machine around this energy: the injector's geometry, a window of ±50 %.
-            let machine32 = Machine::<f32> {
-                species: s,
-                min_kinetic_ev: (0.5 * t_ev) as f32,
-                max_kinetic_ev: (1.5 * t_ev) as f32,
-                ..Machine::injector()
+            // The machine around this energy: the injector's geometry, a window of ±20 %.
+            let Ok(machine32) = Machine::try_injector(s, t_ev as f32) else {
+                println!("{name} at {t_ev:e} eV: no machine");
+                return ExitCode::FAILURE;
             };
-            let machine64: Machine<f64> = machine32.to();
-            let Ok(m) = Motion::try_from_kinetic_energy(machine64.species, t_ev) else {
+            let Ok(machine64) = machine32.try_to::<f64>() else {
+                println!("{name} at {t_ev:e} eV: no f64 machine");
+                return ExitCode::FAILURE;
+            };
+            let Ok(m) = Motion::try_from_kinetic_energy(machine64.window.species(), t_ev) else {
                 println!("{name} at {t_ev:e} eV: no state of motion");
                 return ExitCode::FAILURE;
             };
+            // Both loops start empty and see the same readings.
+            let (mut state32, mut state64) = (LoopState::default(), LoopState::default());
+            let sign = f64::from(s.charge()).signum();
+            let Ok(brho) = m.magnetic_rigidity() else {
+                println!("{name}: no rigidity");
+                return ExitCode::FAILURE;
+            };
             for offset in OFFSETS {
-                // The instrument's reading, rounded to f32 once; both precisions start from it.
+                // The instruments' readings, rounded to f32 once; both precisions start from them.
+                // The read-back setting lies on the side the step moves to (no cancellation).
                 let reading32 = Reading {
                     flight_time_s: m.flight_time(machine64.flight_base_m) as f32,
                     offset_m: offset as f32,
+                    readback_tm: test_readback(brho, sign, offset, machine64.steering.drift_m())
+                        as f32,
                 };
                 let reading64 = Reading {
                     flight_time_s: f64::from(reading32.flight_time_s),
                     offset_m: f64::from(reading32.offset_m),
+                    readback_tm: f64::from(reading32.readback_tm),
                 };
-                match (cycle(&machine32, reading32), cycle(&machine64, reading64)) {
+                match (
+                    cycle(&machine32, &mut state32, reading32),
+                    cycle(&machine64, &mut state64, reading64),
+                ) {
                     (Ok(a), Ok(b)) => {
                         cycles += 1;
                         for (i, (x, y)) in a.outputs().into_iter().zip(b.outputs()).enumerate() {

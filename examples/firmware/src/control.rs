@@ -8,66 +8,89 @@
 //!
 //! The machine (our own invention): two timing pickups [`Machine::flight_base_m`] apart measure
 //! the bunch's time of flight; a thin horizontal corrector of length
-//! [`Machine::corrector_length_m`] kicks the beam; a position monitor
-//! [`Machine::monitor_distance_m`] downstream reads its offset. Each cycle:
+//! [`Machine::corrector_length_m`] kicks the beam; a position monitor downstream reads its offset
+//! and the corrector's supply reads back its present setting. Each cycle:
 //!
 //! 1. **kinematics** from the measured time of flight ([`Motion::try_from_flight_time`]);
-//! 2. **plausibility**: the kinetic energy must lie in the machine's window, else the cycle is
-//!    refused and the set point is left alone;
-//! 3. **set point**: the corrector's integrated field for the angle that cancels the offset at
-//!    the monitor (`θ = −x / d`, [`optics::integrated_field_for_angle`]);
-//! 4. **four-force** on the beam inside the corrector ([`FieldTensor::four_force`]);
-//! 5. **push**: one Boris step through the corrector ([`Boris`]), whose kick is compared with
-//!    the wanted angle.
+//! 2. **plausibility**: the energy must lie in the machine's window ([`EnergyWindow`]); a reading
+//!    outside it is refused and the corrector is left alone; plausible energies feed a moving
+//!    window ([`MovingWindow`]) whose mean the loop reports;
+//! 3. **set point**: the steering step ([`SteeringSetup::try_next_setting`]) from the offset and
+//!    the read-back setting;
+//! 4. **four-force** on the beam inside the corrector at the new setting
+//!    ([`FieldTensor::try_four_force`]);
+//! 5. **push**: one Boris step through the corrector ([`Boris`]), whose kick the loop reports.
 
+use fourforce::check::{EnergyWindow, MovingWindow, Verdict};
 use fourforce::push::{Boris, Particle, Pusher, UniformField};
-use fourforce::{Error, FieldTensor, FourVector, Motion, Real, Species, ThreeVector, optics};
+use fourforce::steer::SteeringSetup;
+use fourforce::{Error, FieldTensor, FourVector, Motion, Real, Species, ThreeVector};
 
 /// The invented injector line.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Machine<T: Real> {
-    /// The beam's species.
-    pub species: Species<T>,
     /// Distance between the two timing pickups, m.
     pub flight_base_m: T,
     /// Magnetic length of the corrector, m.
     pub corrector_length_m: T,
-    /// Drift from the corrector to the position monitor, m.
-    pub monitor_distance_m: T,
-    /// Lowest plausible kinetic energy, eV.
-    pub min_kinetic_ev: T,
-    /// Highest plausible kinetic energy, eV.
-    pub max_kinetic_ev: T,
+    /// The plausible energies (and the species).
+    pub window: EnergyWindow<T>,
+    /// Drift to the monitor, gain and corrector limits.
+    pub steering: SteeringSetup<T>,
 }
 
 /// Nominal kinetic energy of the injector's protons, eV.
 pub const NOMINAL_KINETIC_EV: f64 = 2.5e6;
 
+/// Readings the moving window of energies holds.
+pub const WINDOW: usize = 8;
+
 impl<T: Real> Machine<T> {
-    /// The injector (every number is exact in `f32`).
-    pub fn injector() -> Self {
-        Self {
-            species: Species::PROTON,
+    /// The injector for `species` around `nominal_ev` (±20 %); every other number is exact in
+    /// `f32`.
+    ///
+    /// # Errors
+    /// As [`EnergyWindow::try_around`] and [`SteeringSetup::try_new`].
+    pub fn try_injector(species: Species<T>, nominal_ev: T) -> Result<Self, Error> {
+        Ok(Self {
             flight_base_m: T::from_f64(1.25),
             corrector_length_m: T::from_f64(0.125),
-            monitor_distance_m: T::from_f64(2.5),
-            min_kinetic_ev: T::from_f64(2.0e6),
-            max_kinetic_ev: T::from_f64(3.0e6),
-        }
+            window: EnergyWindow::try_around(species, nominal_ev, T::from_f64(0.2))?,
+            // Monitor 2.5 m downstream, gain 0.5, ±20 mT m, at most 2 mT m per cycle.
+            steering: SteeringSetup::try_new(
+                T::from_f64(2.5),
+                T::HALF,
+                T::from_f64(0.02),
+                T::from_f64(0.002),
+            )?,
+        })
     }
 
     /// The same machine in another precision, every number converted exactly (`f32` → `f64`),
     /// so that both precisions see identical inputs. For the host only.
-    pub fn to<U: Real>(&self) -> Machine<U> {
+    ///
+    /// # Errors
+    /// As [`Machine::try_injector`] (never for a machine that was valid in `T`).
+    pub fn try_to<U: Real>(&self) -> Result<Machine<U>, Error> {
         let c = |x: T| U::from_f64(x.to_f64());
-        Machine {
-            species: Species::new(c(self.species.rest_energy()), c(self.species.charge())),
+        let (w, s) = (self.window, self.steering);
+        let species = w.species();
+        Ok(Machine {
             flight_base_m: c(self.flight_base_m),
             corrector_length_m: c(self.corrector_length_m),
-            monitor_distance_m: c(self.monitor_distance_m),
-            min_kinetic_ev: c(self.min_kinetic_ev),
-            max_kinetic_ev: c(self.max_kinetic_ev),
-        }
+            window: EnergyWindow::try_new(
+                Species::try_new(c(species.rest_energy()), c(species.charge()))?,
+                c(w.low()),
+                c(w.nominal()),
+                c(w.high()),
+            )?,
+            steering: SteeringSetup::try_new(
+                c(s.drift_m()),
+                c(s.gain()),
+                c(s.max_integrated_field_tm()),
+                c(s.max_change_tm()),
+            )?,
+        })
     }
 }
 
@@ -78,6 +101,22 @@ pub struct Reading<T: Real> {
     pub flight_time_s: T,
     /// Beam offset at the position monitor, m.
     pub offset_m: T,
+    /// The corrector supply's read-back setting, T m.
+    pub readback_tm: T,
+}
+
+/// A read-back setting for test readings (host only): twice the full correction of `offset_m`,
+/// on the side the steering step moves to, so the new setting never cancels against it and the
+/// kick stays a few milliradians at any energy.
+pub fn test_readback(rigidity_tm: f64, charge_sign: f64, offset_m: f64, drift_m: f64) -> f64 {
+    -2.0 * charge_sign * rigidity_tm * offset_m / drift_m
+}
+
+/// What the loop remembers between cycles: the moving window of plausible energies.
+#[derive(Clone, Copy, Debug, PartialEq, Default)]
+pub struct LoopState<T: Real> {
+    /// The last [`WINDOW`] plausible kinetic energies, eV.
+    pub energies: MovingWindow<T, WINDOW>,
 }
 
 /// What one cycle computes.
@@ -85,6 +124,8 @@ pub struct Reading<T: Real> {
 pub struct Cycle<T: Real> {
     /// Kinetic energy from the time of flight, eV.
     pub kinetic_ev: T,
+    /// Mean of the moving window of energies, eV.
+    pub mean_kinetic_ev: T,
     /// Magnetic rigidity, T m.
     pub rigidity_tm: T,
     /// Corrector set point: integrated field, T m.
@@ -96,21 +137,22 @@ pub struct Cycle<T: Real> {
 }
 
 /// Number of outputs of a [`Cycle`], in the order of [`Cycle::outputs`].
-pub const OUTPUTS: usize = 5;
+pub const OUTPUTS: usize = 6;
 
 /// Names of the outputs, in the order of [`Cycle::outputs`].
-pub const OUTPUT_NAMES: [&str; OUTPUTS] = ["T", "B rho", "corrector", "K_x", "kick"];
+pub const OUTPUT_NAMES: [&str; OUTPUTS] = ["T", "T mean", "B rho", "corrector", "K_x", "kick"];
 
-/// Documented `f32` bounds of each output against the `f64` run of the same cycle from the same
+/// Documented `f32` bounds of each output against the `f64` run of the same cycles from the same
 /// inputs, in eps = 2⁻²³ relative; checked by the firmware on the chip and by
 /// `examples/f32_vs_f64.rs` on the host.
 ///
-/// Measured worst over the host sweep (7 species, 1 keV to 10 GeV, 4 offsets): T 5, Bρ 3,
-/// corrector 3, K_x 5, kick 4. The deviation is the computation's alone: both precisions start
-/// from the same `f32` reading. (How well an `f32` time of flight pins the energy is another
-/// matter: as β → 1 the flight time approaches `L/c` within less than one `f32` step, and the
-/// energy it gives is only as good as that step; the sweep's electrons above 3.5 GeV fall out of
-/// the plausibility window in both precisions for that reason.)
+/// Measured worst over the host sweep (7 species, 1 keV to 10 GeV, 4 readings each): see
+/// `examples/f32_vs_f64.rs`'s output in ci/firmware. The deviation is the computation's alone:
+/// both precisions start from the same `f32` readings. (How well an `f32` time of flight pins the
+/// energy is another matter: as β → 1 the flight time approaches `L/c` within less than one `f32`
+/// step, and the energy it gives is only as good as that step; in the sweep, electrons and
+/// positrons above 1.2 GeV fall out of the ±20 % plausibility window in both precisions for that
+/// reason.)
 pub const BOUNDS_EPS: [u32; OUTPUTS] = [8; OUTPUTS];
 
 impl<T: Real> Cycle<T> {
@@ -118,6 +160,7 @@ impl<T: Real> Cycle<T> {
     pub fn outputs(&self) -> [T; OUTPUTS] {
         [
             self.kinetic_ev,
+            self.mean_kinetic_ev,
             self.rigidity_tm,
             self.corrector_tm,
             self.force_x_ev_per_m,
@@ -129,7 +172,11 @@ impl<T: Real> Cycle<T> {
 /// Kinematics from the measured time of flight (the `convert` figure of ci/firmware).
 #[inline]
 pub fn kinematics<T: Real>(machine: &Machine<T>, flight_time_s: T) -> Result<Motion<T>, Error> {
-    Motion::try_from_flight_time(machine.species, machine.flight_base_m, flight_time_s)
+    Motion::try_from_flight_time(
+        machine.window.species(),
+        machine.flight_base_m,
+        flight_time_s,
+    )
 }
 
 /// The corrector's field as a tensor and as a field source, for the set point `corrector_tm`.
@@ -155,29 +202,47 @@ pub fn four_velocity<T: Real>(motion: &Motion<T>) -> FourVector<T> {
 ///
 /// # Errors
 /// Whatever the library refuses (a flight time shorter than light's, a non-finite reading ...),
-/// and [`Error::InvalidRange`] when the kinetic energy is outside the machine's window.
-pub fn cycle<T: Real>(machine: &Machine<T>, reading: Reading<T>) -> Result<Cycle<T>, Error> {
+/// and [`Error::InvalidRange`] when the energy is outside the machine's window (the window's
+/// verdict is Low or High); a refused reading leaves `state` unchanged.
+pub fn cycle<T: Real>(
+    machine: &Machine<T>,
+    state: &mut LoopState<T>,
+    reading: Reading<T>,
+) -> Result<Cycle<T>, Error> {
     // 1. Kinematics from the measured value.
     let motion = kinematics(machine, reading.flight_time_s)?;
-    // 2. Plausibility: refuse a kinetic energy outside the window.
-    let t = motion.kinetic_energy();
-    if t < machine.min_kinetic_ev || t > machine.max_kinetic_ev {
-        return Err(Error::InvalidRange);
+    // 2. Plausibility.
+    match machine.window.check_motion(&motion) {
+        Verdict::Inside { .. } => {}
+        Verdict::Low { .. } | Verdict::High { .. } => return Err(Error::InvalidRange),
+        Verdict::Impossible(e) => return Err(e),
     }
-    // 3. Set point: the angle that brings the beam back to the axis at the monitor.
-    let angle = -reading.offset_m / machine.monitor_distance_m;
-    let corrector_tm = optics::integrated_field_for_angle(&motion, angle)?;
+    let t = motion.kinetic_energy();
+    state.energies.try_push(t)?;
+    // 3. Set point: the steering step toward the axis (target offset 0).
+    let command = machine.steering.try_next_setting(
+        &motion,
+        reading.offset_m,
+        T::ZERO,
+        reading.readback_tm,
+    )?;
+    let corrector_tm = command.setting_tm();
     // 4. Four-force on the beam inside the corrector.
     let (tensor, source) = corrector_field(machine, corrector_tm)?;
-    let force = tensor.try_four_force(machine.species.charge(), four_velocity(&motion))?;
+    let charge = machine.window.species().charge();
+    let force = tensor.try_four_force(charge, four_velocity(&motion))?;
     // 5. One push step through the corrector, its length in one step.
-    let pusher = Boris::try_new(machine.species, machine.corrector_length_m / motion.speed())?;
+    let pusher = Boris::try_new(
+        machine.window.species(),
+        machine.corrector_length_m / motion.speed(),
+    )?;
     let start = ThreeVector::new(T::ZERO, T::ZERO, motion.beta_gamma());
     let mut particle = Particle::try_new(ThreeVector::ZERO, start, T::ZERO)?;
     pusher.try_step(&mut particle, &source)?;
     let u = particle.momentum();
     Ok(Cycle {
         kinetic_ev: t,
+        mean_kinetic_ev: state.energies.try_mean()?,
         rigidity_tm: motion.magnetic_rigidity()?,
         corrector_tm,
         force_x_ev_per_m: force.space.x,
