@@ -99,3 +99,8 @@ pub use error::Error;
 pub use real::{MaybeFormat, Real, finite};
 pub use species::Species;
 pub use vector::ThreeVector;
+
+/// The README's Rust examples, compiled and run as doctests so that they stay true.
+#[cfg(doctest)]
+#[doc = include_str!("../README.md")]
+struct ReadmeDoctests;
