@@ -344,7 +344,7 @@ impl<T: Real> BeamState<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
-    pub fn on_axis(motion: Motion<T>) -> Self {
+    pub const fn on_axis(motion: Motion<T>) -> Self {
         Self {
             motion,
             x: T::ZERO,

@@ -36,7 +36,7 @@
 //! `t += Δt` is 10 % off.
 //!
 //! # For firmware authors
-//! A step is about 60 floating-point operations, 2–3 square roots and 3–4 divisions, no
+//! A step is about 80 floating-point operations, 2–3 square roots and 3–4 divisions, no
 //! allocation and no dynamic dispatch: the field source is a generic parameter.
 //!
 //! # Examples
