@@ -299,7 +299,7 @@ impl<T: Real> StepFactors<T> {
     /// ```
     pub fn try_new(species: Species<T>, dt: T) -> Result<Self, Error> {
         let m = crate::finite(species.rest_energy())?;
-        let q = crate::finite(species.charge())?;
+        crate::finite(species.charge())?;
         if m <= T::ZERO {
             return Err(Error::NonPositiveMass);
         }
@@ -309,7 +309,8 @@ impl<T: Real> StepFactors<T> {
         // c Δt with the exact two-part c (C_LO = 10 m/s in f32, 0 in f64); no `mul_add`, which
         // would go through soft double on a chip without a hardware FMA.
         let c_dt = T::C_HI * dt + T::C_LO * dt;
-        let kick = q / m * c_dt * T::HALF;
+        // Q/mc² in 1/V, the factor of the scaled equation of motion
+        let kick = species.charge_over_rest_energy() * c_dt * T::HALF;
         let rotation = kick * T::SPEED_OF_LIGHT;
         if !(c_dt.is_finite() && kick.is_finite() && rotation.is_finite()) || c_dt == T::ZERO {
             return Err(Error::Overflow);
