@@ -190,3 +190,20 @@ fn four_velocity_from_momentum_f32() {
     assert!(worst <= 2.0, "four-velocity: {worst}");
     assert!(worst_dev <= 3.0, "deviation: {worst_dev}");
 }
+
+#[test]
+fn field_reads_back_what_it_was_given() {
+    // B in T → cB (c in two exact parts) → B = cB/c: within 2 eps32 of the input; E exactly.
+    let mut rng = Rng(0x5151_5151_aaaa_0001);
+    let mut worst = 0.0_f64;
+    for _ in 0..CASES {
+        let (e, b) = fields(&mut rng);
+        let f = FieldTensor::try_from_fields(e, b).unwrap();
+        assert_eq!(f.e(), e);
+        for (got, want) in f.b().to_array().iter().zip(b.to_array()) {
+            worst = worst.max(eps_rel(*got, f64::from(want)));
+        }
+    }
+    println!("field read-back f32: worst |B - B_in|/|B_in| = {worst:.3} eps32");
+    assert!(worst <= 2.0, "B read-back: {worst}");
+}
