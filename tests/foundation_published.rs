@@ -182,6 +182,30 @@ macro_rules! published {
             }
 
             #[test]
+            fn four_velocity_from_published_speeds() {
+                // published-checks §3 [mp, CODATA 2018]: electron 1 keV, v = 18727896.635170324 m/s,
+                // γ − 1 = 0.0019569511835591834; proton 1 GeV, v = 262326089.43513954 m/s,
+                // γ = 2.0657889247894517, βγ = 1.8076182898451650. γ from a speed has condition
+                // γ²β² (published-checks §5): 0.004 and 3.3 here, hence the bars.
+                let u = FourVector::try_four_velocity_from_velocity(v(
+                    18_727_896.635_170_324,
+                    0.0,
+                    0.0,
+                ))
+                .unwrap();
+                assert!(eps_rel(u.time, 1.001_956_951_183_559_2) <= 2.0);
+                let u = FourVector::try_four_velocity_from_velocity(v(
+                    0.0,
+                    -262_326_089.435_139_54,
+                    0.0,
+                ))
+                .unwrap();
+                assert!(eps_rel(u.time, 2.065_788_924_789_451_7) <= 8.0);
+                assert!(eps_rel(u.space.y, -1.807_618_289_845_165) <= 8.0);
+                assert!(u.four_velocity_deviation().abs() <= 4.0 * R::EPSILON);
+            }
+
+            #[test]
             fn one_ev_electron_works() {
                 // published-checks §3: electron, T = 1 eV: pc = 1010.9396124398331 eV,
                 // γ − 1 = 1.9569511835591834e-6, βγ = pc/m = 0.0019783594710709936 [mp, CODATA 2018].
