@@ -766,6 +766,37 @@ mod tests {
     }
 
     #[test]
+    fn metric_deviation_measures_a_wrong_matrix() {
+        // 3·I is not a Lorentz transformation: Λᵀ g Λ − g = 8 g, largest entry 8, over (Λ⁰₀)² = 9.
+        let three = LorentzTransform::from_matrix([
+            [3.0_f64, 0.0, 0.0, 0.0],
+            [0.0, 3.0, 0.0, 0.0],
+            [0.0, 0.0, 3.0, 0.0],
+            [0.0, 0.0, 0.0, 3.0],
+        ]);
+        assert_eq!(three.metric_deviation(), 8.0 / 9.0);
+        let mut m = LorentzTransform::<f32>::IDENTITY.to_matrix();
+        m[1][1] = f32::NAN;
+        assert_eq!(
+            LorentzTransform::from_matrix(m).metric_deviation(),
+            f32::INFINITY
+        );
+    }
+
+    #[test]
+    fn general_transform_keeps_contractions() {
+        let a = Boost::try_from_beta(ThreeVector::new(0.5_f64, 0.25, 0.0)).unwrap();
+        let b = Boost::try_from_beta(ThreeVector::new(0.0_f64, -0.5, 0.5)).unwrap();
+        let t = a.then(&b);
+        let k = Covector::new(1.0, -2.0, 0.5, 3.0);
+        let x = FourVector::new(2.0, 1.0, -1.0, 0.25);
+        let kt = t.apply_covector(k);
+        assert!((kt.contract(t.apply(x)) - k.contract(x)).abs() < 1e-13);
+        let direct = b.apply_covector(a.apply_covector(k));
+        assert!((kt - direct).time.abs() < 1e-14 && (kt - direct).space.norm() < 1e-14);
+    }
+
+    #[test]
     fn zero_rapidity_is_the_identity() {
         let b = Boost::try_from_rapidity(ThreeVector::new(0.0_f64, 0.0, 1.0), 0.0).unwrap();
         assert_eq!(b, Boost::IDENTITY);
