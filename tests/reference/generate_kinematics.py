@@ -3,7 +3,7 @@
 
 Regenerate (from the repository root):
 
-    pip install mpmath            # any release; 1.3 and 1.4 give identical files
+    pip install mpmath            # the committed files were written with mpmath 1.3.0
     python3 tests/reference/generate_kinematics.py
 
 It writes, next to this script:
