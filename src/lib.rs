@@ -100,6 +100,33 @@ pub use real::{MaybeFormat, Real, finite};
 pub use species::Species;
 pub use vector::ThreeVector;
 
+#[macro_use]
+mod aliases;
+/// Every public generic type in single precision, the firmware's working precision.
+///
+/// # Examples
+/// ```
+/// use fourforce::f32::{Motion, Species};
+/// let m = Motion::try_from_kinetic_energy(Species::ELECTRON, 1.0e6)?;
+/// assert!((m.beta() - 0.941_079_2).abs() < 1e-6);
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+pub mod f32 {
+    aliases!(f32);
+}
+/// Every public generic type in double precision, the host's reference precision.
+///
+/// # Examples
+/// ```
+/// use fourforce::f64::{Motion, Species};
+/// let m = Motion::try_from_kinetic_energy(Species::PROTON, 1.0e9)?;
+/// assert!((m.beta() - 0.875_025_646_693_018_33).abs() < 1e-15); // mpmath, CODATA 2018
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+pub mod f64 {
+    aliases!(f64);
+}
+
 /// The README's Rust examples, compiled and run as doctests so that they stay true.
 #[cfg(doctest)]
 #[doc = include_str!("../README.md")]

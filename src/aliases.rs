@@ -1,0 +1,53 @@
+//! Concrete aliases per precision, so firmware can write `fourforce::f32::Motion`.
+
+/// Defines the aliases of every public generic type for one scalar type.
+macro_rules! aliases {
+    ($t:ident) => {
+        use crate::{beamline, check, push, steer};
+
+        #[doc = concat!("[`Species`](crate::Species) in `", stringify!($t), "`.")]
+        pub type Species = crate::Species<$t>;
+        #[doc = concat!("[`Motion`](crate::Motion) in `", stringify!($t), "`.")]
+        pub type Motion = crate::Motion<$t>;
+        #[doc = concat!("[`ThreeVector`](crate::ThreeVector) in `", stringify!($t), "`.")]
+        pub type ThreeVector = crate::ThreeVector<$t>;
+        #[doc = concat!("[`FourVector`](crate::FourVector) in `", stringify!($t), "`.")]
+        pub type FourVector = crate::FourVector<$t>;
+        #[doc = concat!("[`Covector`](crate::Covector) in `", stringify!($t), "`.")]
+        pub type Covector = crate::Covector<$t>;
+        #[doc = concat!("[`FieldTensor`](crate::FieldTensor) in `", stringify!($t), "`.")]
+        pub type FieldTensor = crate::FieldTensor<$t>;
+        #[doc = concat!("[`CovariantFieldTensor`](crate::CovariantFieldTensor) in `", stringify!($t), "`.")]
+        pub type CovariantFieldTensor = crate::CovariantFieldTensor<$t>;
+        #[doc = concat!("[`Boost`](crate::Boost) in `", stringify!($t), "`.")]
+        pub type Boost = crate::Boost<$t>;
+        #[doc = concat!("[`LorentzTransform`](crate::LorentzTransform) in `", stringify!($t), "`.")]
+        pub type LorentzTransform = crate::LorentzTransform<$t>;
+        #[doc = concat!("[`Particle`](crate::push::Particle) in `", stringify!($t), "`.")]
+        pub type Particle = push::Particle<$t>;
+        #[doc = concat!("[`UniformField`](crate::push::UniformField) in `", stringify!($t), "`.")]
+        pub type UniformField = push::UniformField<$t>;
+        #[doc = concat!("[`Boris`](crate::push::Boris) in `", stringify!($t), "`.")]
+        pub type Boris = push::Boris<$t>;
+        #[doc = concat!("[`Vay`](crate::push::Vay) in `", stringify!($t), "`.")]
+        pub type Vay = push::Vay<$t>;
+        #[doc = concat!("[`HigueraCary`](crate::push::HigueraCary) in `", stringify!($t), "`.")]
+        pub type HigueraCary = push::HigueraCary<$t>;
+        #[doc = concat!("[`Element`](crate::beamline::Element) in `", stringify!($t), "`.")]
+        pub type Element = beamline::Element<$t>;
+        #[doc = concat!("[`BeamState`](crate::beamline::BeamState) in `", stringify!($t), "`.")]
+        pub type BeamState = beamline::BeamState<$t>;
+        #[doc = concat!("[`BeamLine`](crate::beamline::BeamLine) of capacity `N` in `", stringify!($t), "`.")]
+        pub type BeamLine<const N: usize> = beamline::BeamLine<$t, N>;
+        #[doc = concat!("[`EnergyWindow`](crate::check::EnergyWindow) in `", stringify!($t), "`.")]
+        pub type EnergyWindow = check::EnergyWindow<$t>;
+        #[doc = concat!("[`Verdict`](crate::check::Verdict) in `", stringify!($t), "`.")]
+        pub type Verdict = check::Verdict<$t>;
+        #[doc = concat!("[`MovingWindow`](crate::check::MovingWindow) of capacity `N` in `", stringify!($t), "`.")]
+        pub type MovingWindow<const N: usize> = check::MovingWindow<$t, N>;
+        #[doc = concat!("[`SteeringSetup`](crate::steer::SteeringSetup) in `", stringify!($t), "`.")]
+        pub type SteeringSetup = steer::SteeringSetup<$t>;
+        #[doc = concat!("[`SteeringCommand`](crate::steer::SteeringCommand) in `", stringify!($t), "`.")]
+        pub type SteeringCommand = steer::SteeringCommand<$t>;
+    };
+}
