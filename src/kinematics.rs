@@ -52,6 +52,7 @@
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
+use crate::compensated::two_prod;
 use crate::{Error, Real, Species};
 
 /// The state of motion of one particle of a [`Species`]: kinetic energy and everything derived.
@@ -101,30 +102,6 @@ fn times_c<T: Real>(x: T) -> T {
 #[inline]
 fn over_c<T: Real>(x: T) -> T {
     x * T::INV_SPEED_OF_LIGHT
-}
-
-/// The exact product `a · b = p + e` (Dekker's splitting; no fused multiply-add needed).
-#[inline]
-fn two_product<T: Real>(a: T, b: T) -> (T, T) {
-    let p = a * b;
-    let (ah, al) = split(a);
-    let (bh, bl) = split(b);
-    let e = ((ah * bh - p) + ah * bl + al * bh) + al * bl;
-    (p, e)
-}
-
-/// Veltkamp's split of `a` into two halves of at most half the significand bits each.
-#[inline]
-fn split<T: Real>(a: T) -> (T, T) {
-    // 2^12 + 1 for f32 (24 bits), 2^27 + 1 for f64 (53 bits).
-    let factor = if T::MANTISSA_DIGITS == 24 {
-        T::from_u32(4_097)
-    } else {
-        T::from_u32(134_217_729)
-    };
-    let t = factor * a;
-    let hi = t - (t - a);
-    (hi, a - hi)
 }
 
 /// `β` from `pc/E`, or from `1 − (1 − β)` once `1 − β < 1/4`: there the subtraction is exact to
@@ -571,7 +548,7 @@ impl<T: Real> Motion<T> {
         // pc = (Bρ |Q|) · c with c = C_HI + C_LO and the product x · C_HI exact (Dekker), so pc
         // carries one rounding, not three.
         let x = brho * q;
-        let (p, e) = two_product(x, T::C_HI);
+        let (p, e) = two_prod(x, T::C_HI);
         if !p.is_finite() || !e.is_finite() {
             return Err(Error::Overflow);
         }
@@ -706,7 +683,7 @@ impl<T: Real> Motion<T> {
         if l <= T::ZERO || t <= T::ZERO {
             return Err(Error::NonPositiveLength);
         }
-        let (p, e) = two_product(T::C_HI, t);
+        let (p, e) = two_prod(T::C_HI, t);
         if !p.is_finite() || !e.is_finite() {
             return Err(Error::Overflow);
         }
@@ -1118,16 +1095,6 @@ mod tests {
         for m in HELD {
             assert_eq!(Ok(m), Motion::try_from_kinetic_energy(m.species(), 0.0));
         }
-    }
-
-    #[test]
-    fn two_product_is_exact() {
-        let (p, e) = two_product(f32::C_HI, 3.335_640_9e-9_f32);
-        let exact = f64::from(f32::C_HI) * f64::from(3.335_640_9e-9_f32);
-        assert_eq!(f64::from(p) + f64::from(e), exact);
-        let (p, e) = two_product(1.0_f64 + f64::EPSILON, 1.0 + f64::EPSILON);
-        assert_eq!(p, 1.0 + 2.0 * f64::EPSILON);
-        assert_eq!(e, f64::EPSILON * f64::EPSILON);
     }
 
     #[test]
