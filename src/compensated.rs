@@ -117,6 +117,34 @@ mod tests {
     }
 
     #[test]
+    fn two_sum_returns_the_lost_low_part_in_either_order() {
+        let tiny = 2.0_f32.powi(-30);
+        assert_eq!(two_sum(1.0_f32, tiny), (1.0, tiny));
+        assert_eq!(two_sum(tiny, 1.0_f32), (1.0, tiny));
+        assert_eq!(
+            two_sum(1.0_f64, -2.0_f64.powi(-60)),
+            (1.0, -2.0_f64.powi(-60))
+        );
+    }
+
+    #[test]
+    fn accumulator_keeps_a_term_below_the_last_bit() {
+        // 1 + 2^-30 − 1 = 2^-30, all of which plain f32 loses.
+        let tiny = 2.0_f32.powi(-30);
+        let mut acc = Accumulator::new();
+        acc.add(1.0);
+        acc.add(tiny);
+        acc.add(-1.0);
+        assert_eq!(acc.value(), tiny);
+        assert_eq!(1.0_f32 + tiny - 1.0, 0.0);
+        let mut acc = Accumulator::new();
+        acc.add_product(3.0_f32, 5.0);
+        acc.sub_product(2.0, 4.0);
+        acc.add_small(0.5);
+        assert_eq!(acc.value(), 7.5);
+    }
+
+    #[test]
     fn accumulator_recovers_a_cancelled_difference() {
         // (1 + 2^-20)^2 - 1 - 2^-19 = 2^-40, lost entirely by plain f32 arithmetic.
         let x = 1.0_f32 + 2.0_f32.powi(-20);
