@@ -189,6 +189,19 @@ macro_rules! exact {
                     big_force.try_three_force_newtons(R::NAN, ok),
                     Err(Error::NonFinite)
                 );
+                // An unchecked tensor with a NaN in either half is not finite, and the checked
+                // force methods refuse it.
+                let nan_e = FieldTensor::from_scaled(v(R::NAN, 0.0, 0.0), ok);
+                let nan_b = FieldTensor::from_scaled(ok, v(0.0, R::NAN, 0.0));
+                assert!(!nan_e.is_finite() && !nan_b.is_finite());
+                for t in [nan_e, nan_b] {
+                    assert_eq!(
+                        t.try_four_force(1.0, FourVector::AT_REST),
+                        Err(Error::NonFinite)
+                    );
+                    assert_eq!(t.try_three_force_newtons(1.0, ok), Err(Error::NonFinite));
+                    assert_eq!(t.try_power_watts(1.0, ok), Err(Error::NonFinite));
+                }
             }
 
             #[test]
