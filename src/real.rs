@@ -142,7 +142,11 @@ pub trait Real:
     fn hypot(self, other: Self) -> Self;
     /// Absolute value.
     fn abs(self) -> Self;
-    /// Fused multiply-add `self * a + b` with one rounding (software where the chip lacks it).
+    /// Fused multiply-add `self * a + b` with one rounding.
+    ///
+    /// Through `libm::fmaf`/`fma`: on a Cortex-M, `fmaf` computes in software `f64`, which pulls
+    /// soft-double code into an `f32` image. The crate itself never calls it on an `f32` path
+    /// (exact products use Dekker's splitting instead; see the firmware check).
     fn mul_add(self, a: Self, b: Self) -> Self;
     /// Sine (radians).
     fn sin(self) -> Self;
