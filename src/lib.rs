@@ -70,11 +70,11 @@ mod vector;
 // --- foundation: spacetime, field tensor, four-force, boosts ---
 #[cfg(feature = "approx")]
 mod approx_eq;
-mod boost;
+pub mod boost;
 mod compensated;
-mod field;
-mod force;
-mod spacetime;
+pub mod field;
+pub mod force;
+pub mod spacetime;
 pub use boost::{Boost, LorentzTransform};
 pub use field::{CovariantFieldTensor, FieldTensor};
 pub use spacetime::{Covector, FourVector, Metric};
