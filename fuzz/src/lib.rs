@@ -168,8 +168,8 @@ pub mod known {
     /// reachable only through a species of tiny rest energy) holds `1 − β = 0` and `β = 1`
     /// (speed `c`) instead of refusing with `Error::Overflow`.
     pub const ONE_MINUS_BETA_UNDERFLOW: bool = true;
-    /// `optics::energy_gain`, `integrated_field_for_angle` and `deflector_field_for_angle`
-    /// return `Ok(±inf)` when their product overflows, instead of `Err(Error::Overflow)`.
+    /// `optics::energy_gain` and `optics::integrated_field_for_angle` return `Ok(±inf)` when
+    /// their product overflows, instead of `Err(Error::Overflow)`.
     pub const UNCHECKED_PRODUCTS: bool = true;
     /// `FourVector::four_velocity_deviation` is `+inf` for a four-velocity with `u⁰` above
     /// about 1.8e19 (f32) or 1.3e154 (f64), though `try_four_velocity_from_momentum` accepts
@@ -183,10 +183,9 @@ pub mod known {
     /// whose `cB` overflows (|B| above about 1.1e30 T in f32) with `NonFinite` instead of the
     /// documented `Overflow`.
     pub const FIELD_CB_NON_FINITE: bool = true;
-    /// `Boost::rapidity` is `+inf` once `|u|²` overflows (|u| above about 1.8e19 in f32,
-    /// rapidity above about 44.7), though `try_from_rapidity` accepts rapidities up to about 89
-    /// and the true rapidity is finite.
-    pub const RAPIDITY_OVERFLOW: bool = true;
+    /// `Boost::rapidity` was `+inf` once `|u|²` overflowed (|u| above about 1.8e19 in f32);
+    /// fixed on 2026-12-02 by the foundation engineer's `Boost::gamma_limit` (γ ≤ 1e12).
+    pub const RAPIDITY_OVERFLOW: bool = false;
     /// `EnergyWindow` verdicts carry a deviation `(T − T_nom)/T_nom` of `±inf` when the quotient
     /// overflows (a subnormal nominal energy).
     pub const VERDICT_DEVIATION_OVERFLOW: bool = true;
