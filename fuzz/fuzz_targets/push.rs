@@ -106,7 +106,10 @@ fn drive<T: Bits, P: Pusher<T>>(pusher: P, input: &mut Input<'_>, steps: u32, st
     // only a relative accuracy of about eps·τ²: Vay's γ comes from an implicit quartic whose terms
     // cancel from τ² down to γ², and the rotations of all three cancel terms of size |u|·τ. A
     // conditioning of the step, reported as an observation (documentation), not as a bug.
-    let tau = b.norm().to_f64() * pusher.factors().rotation().to_f64().abs();
+    // (In f64: |B| of finite components near MAX overflows T, and ∞ · 0 for a neutral species.)
+    let b64 = [b.x.to_f64(), b.y.to_f64(), b.z.to_f64()];
+    let tau =
+        b64.iter().map(|x| x * x).sum::<f64>().sqrt() * pusher.factors().rotation().to_f64().abs();
     let slack = 1.0 + tau * tau;
     if start {
         let before = p;
