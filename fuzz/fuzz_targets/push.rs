@@ -106,10 +106,22 @@ fn drive<T: Bits, P: Pusher<T>>(pusher: P, input: &mut Input<'_>, steps: u32, st
     // only a relative accuracy of about eps·τ²: Vay's γ comes from an implicit quartic whose terms
     // cancel from τ² down to γ², and the rotations of all three cancel terms of size |u|·τ. A
     // conditioning of the step, reported as an observation (documentation), not as a bug.
-    // (In f64: |B| of finite components near MAX overflows T, and ∞ · 0 for a neutral species.)
+    // (Scaled: |B| of components near MAX overflows even in f64; and 0 for a neutral species,
+    // where ∞ · 0 would be NaN.)
+    let rotation = pusher.factors().rotation().to_f64().abs();
     let b64 = [b.x.to_f64(), b.y.to_f64(), b.z.to_f64()];
-    let tau =
-        b64.iter().map(|x| x * x).sum::<f64>().sqrt() * pusher.factors().rotation().to_f64().abs();
+    let big = b64.iter().fold(0.0_f64, |m, x| m.max(x.abs()));
+    let b_norm = if big == 0.0 {
+        0.0
+    } else {
+        big * b64.iter().map(|x| (x / big).powi(2)).sum::<f64>().sqrt()
+    };
+    let tau = if rotation == 0.0 {
+        0.0
+    } else {
+        b_norm * rotation
+    };
+    b64.iter().map(|x| x * x).sum::<f64>().sqrt() * pusher.factors().rotation().to_f64().abs();
     let slack = 1.0 + tau * tau;
     if start {
         let before = p;
