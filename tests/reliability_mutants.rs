@@ -80,3 +80,23 @@ fn f32_speed_uses_the_exact_two_part_c() {
     let mean = sum / f64::from(n);
     assert!(mean > -0.22 && mean < 0.1, "mean signed error {mean} eps");
 }
+
+macro_rules! sharper_beamline {
+    ($t:ident, $name:ident) => {
+        /// A drift moves both planes: `y += L y'` as `x += L x'` (straight-line geometry). The
+        /// values are exact in both precisions (powers of two).
+        #[test]
+        fn $name() {
+            use fourforce::beamline::{BeamState, Element};
+            let m =
+                fourforce::Motion::try_from_kinetic_energy(Species::<$t>::PROTON, 1.0e6).unwrap();
+            let start = BeamState::try_new(m, 0.25, 0.5, 0.125, 0.0625, 0.0).unwrap();
+            let end = Element::Drift { length_m: 2.0 }.try_apply(&start).unwrap();
+            assert_eq!((end.x(), end.x_slope()), (1.25, 0.5));
+            assert_eq!((end.y(), end.y_slope()), (0.25, 0.0625));
+        }
+    };
+}
+
+sharper_beamline!(f32, drift_moves_both_planes_f32);
+sharper_beamline!(f64, drift_moves_both_planes_f64);
