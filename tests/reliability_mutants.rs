@@ -100,3 +100,31 @@ macro_rules! sharper_beamline {
 
 sharper_beamline!(f32, drift_moves_both_planes_f32);
 sharper_beamline!(f64, drift_moves_both_planes_f64);
+
+macro_rules! sharper_gain {
+    ($t:ident, $name:ident) => {
+        /// The gain of a line of gaps is a compensated sum: its carry (the rounding error of the
+        /// running sum) is added back when the kinetic energy is read. A proton from rest through
+        /// +1 V, then +0.375 eps V: the running sum stays 1 and the carry holds 0.375 eps, so the
+        /// energy reads `1 + 0.375 eps`, which rounds to 1; with the carry subtracted instead it
+        /// would read `1 − 0.375 eps`, which rounds to the float below 1.
+        #[test]
+        fn $name() {
+            use fourforce::beamline::{BeamState, Element};
+            let rest =
+                fourforce::Motion::try_from_kinetic_energy(Species::<$t>::PROTON, 0.0).unwrap();
+            let small = 0.375 * <$t>::EPSILON;
+            let s = Element::AcceleratingGap { voltage_v: 1.0 }
+                .try_apply(&BeamState::on_axis(rest))
+                .unwrap();
+            let s = Element::AcceleratingGap { voltage_v: small }
+                .try_apply(&s)
+                .unwrap();
+            assert_eq!(s.kinetic_energy(), 1.0);
+            assert_eq!(s.energy_gain(), 1.0);
+        }
+    };
+}
+
+sharper_gain!(f32, gap_gain_carry_is_added_f32);
+sharper_gain!(f64, gap_gain_carry_is_added_f64);
