@@ -333,7 +333,8 @@ impl<T: Real> FourVector<T> {
     ///
     /// # Errors
     /// [`Error::NonFinite`] for a non-finite momentum or rest energy;
-    /// [`Error::NonPositiveMass`] for a rest energy that is not positive.
+    /// [`Error::NonPositiveMass`] for a rest energy that is not positive; [`Error::Overflow`]
+    /// when `pc/m` or `u⁰` does not fit the precision.
     ///
     /// # Examples
     /// ```
@@ -357,10 +358,12 @@ impl<T: Real> FourVector<T> {
             return Err(Error::NonPositiveMass);
         }
         let u = pc_ev / m;
-        if !u.is_finite() {
+        // Every component may fit while |u|, and so u⁰, does not.
+        let time = T::ONE.hypot(u.norm());
+        if !u.is_finite() || !time.is_finite() {
             return Err(Error::Overflow);
         }
-        Ok(Self::from_parts(T::ONE.hypot(u.norm()), u))
+        Ok(Self::from_parts(time, u))
     }
 
     /// The normalisation deviation of a four-velocity, `(u·u − 1)/(u⁰)²`: an on-device sanity

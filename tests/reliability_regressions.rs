@@ -67,3 +67,27 @@ macro_rules! regressions {
 
 regressions!(f32);
 regressions!(f64);
+
+/// Found by the `four_vector` fuzz target: every component of `pc/m` finite but `|pc/m|` not
+/// (f32 pc = (-2.562126e38, -2.562126e38, -2.562126e38) eV, m = 1 eV) gave `Ok` with `u⁰ = +inf`.
+#[test]
+fn four_velocity_whose_time_part_overflows_is_refused() {
+    use fourforce::{FourVector, Species};
+    let m = Species::<f32>::new(1.0, 1.0);
+    let pc = ThreeVector::new(-2.562_126e38_f32, -2.562_126e38, -2.562_126e38);
+    assert_eq!(
+        FourVector::try_four_velocity_from_momentum(m, pc),
+        Err(Error::Overflow)
+    );
+    let m = Species::<f64>::new(1.0, 1.0);
+    let big = f64::MAX * 0.75;
+    let pc = ThreeVector::new(big, big, big);
+    assert_eq!(
+        FourVector::try_four_velocity_from_momentum(m, pc),
+        Err(Error::Overflow)
+    );
+    // The largest that fits is still accepted.
+    let pc = ThreeVector::new(1.0e38_f32, 0.0, 0.0);
+    let u = FourVector::try_four_velocity_from_momentum(Species::<f32>::new(1.0, 1.0), pc).unwrap();
+    assert!(u.time.is_finite());
+}

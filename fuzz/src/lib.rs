@@ -178,7 +178,9 @@ pub mod known {
     /// `FourVector::try_four_velocity_from_momentum` returns `Ok` with `u⁰ = +inf` when every
     /// component of `pc/m` is finite but `|pc/m|` is not (for example three components of
     /// -2.56e38 in f32), instead of `Err(Error::Overflow)`.
-    pub const FOUR_VELOCITY_TIME_INF: bool = true;
+    /// Fixed on 2026-12-02 (u⁰ checked, `Overflow`; regression test in
+    /// `tests/reliability_regressions.rs`).
+    pub const FOUR_VELOCITY_TIME_INF: bool = false;
     /// `FieldTensor::try_from_fields` (and the two `try_*_invariant_of`) refuse a finite `B`
     /// whose `cB` overflows (|B| above about 1.1e30 T in f32) with `NonFinite` instead of the
     /// documented `Overflow`.
