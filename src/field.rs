@@ -200,7 +200,7 @@ impl<T: Real> FieldTensor<T> {
         if !b_tesla.is_finite() {
             return Err(Error::NonFinite);
         }
-        Self::try_from_scaled(e_v_per_m, c_times(b_tesla))
+        Self::try_from_scaled(e_v_per_m, c_b_checked(b_tesla)?)
     }
 
     /// True when every component is finite.
@@ -453,7 +453,7 @@ impl<T: Real> FieldTensor<T> {
             return Err(Error::NonFinite);
         }
         check_field(e_v_per_m)?;
-        check_field(c_times(b_tesla))?;
+        check_field(c_b_checked(b_tesla)?)?;
         let mut acc = Accumulator::new();
         for (b, e) in b_tesla.to_array().into_iter().zip(e_v_per_m.to_array()) {
             // cB = hi + lo exactly (to far below the last bit of hi): hi + pe + C_LO·B.
@@ -511,7 +511,7 @@ impl<T: Real> FieldTensor<T> {
             return Err(Error::NonFinite);
         }
         check_field(e_v_per_m)?;
-        check_field(c_times(b_tesla))?;
+        check_field(c_b_checked(b_tesla)?)?;
         let mut acc = Accumulator::new();
         for (b, e) in b_tesla.to_array().into_iter().zip(e_v_per_m.to_array()) {
             acc.add_product(e, b);
@@ -524,6 +524,18 @@ impl<T: Real> FieldTensor<T> {
 #[inline]
 fn c_times<T: Real>(b: ThreeVector<T>) -> ThreeVector<T> {
     b * T::C_HI + b * T::C_LO
+}
+
+/// `c·B` of a finite `B`; [`Error::Overflow`] when it does not fit the precision (so that a
+/// finite field too large is refused as too large, not as non-finite).
+#[inline]
+fn c_b_checked<T: Real>(b: ThreeVector<T>) -> Result<ThreeVector<T>, Error> {
+    let cb = c_times(b);
+    if cb.is_finite() {
+        Ok(cb)
+    } else {
+        Err(Error::Overflow)
+    }
 }
 
 /// See [`FieldTensor::limit`].

@@ -91,3 +91,28 @@ fn four_velocity_whose_time_part_overflows_is_refused() {
     let u = FourVector::try_four_velocity_from_momentum(Species::<f32>::new(1.0, 1.0), pc).unwrap();
     assert!(u.time.is_finite());
 }
+
+/// Found by the `field` fuzz target: a finite B whose cB overflows (f32 B = -1.847577e38 T) was
+/// refused with `NonFinite`; the documented refusal of a field above the limit is `Overflow`.
+#[test]
+fn finite_field_too_large_is_refused_as_overflow() {
+    use fourforce::FieldTensor;
+    let b = ThreeVector::new(-1.847_577e38_f32, 0.0, 0.0);
+    assert_eq!(
+        FieldTensor::try_from_fields(ThreeVector::ZERO, b),
+        Err(Error::Overflow)
+    );
+    assert_eq!(
+        FieldTensor::try_scalar_invariant_of(ThreeVector::ZERO, b),
+        Err(Error::Overflow)
+    );
+    assert_eq!(
+        FieldTensor::try_pseudoscalar_invariant_of(ThreeVector::ZERO, b),
+        Err(Error::Overflow)
+    );
+    let nan = ThreeVector::new(f32::NAN, 0.0, 0.0);
+    assert_eq!(
+        FieldTensor::try_from_fields(ThreeVector::ZERO, nan),
+        Err(Error::NonFinite)
+    );
+}

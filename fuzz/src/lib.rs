@@ -184,7 +184,8 @@ pub mod known {
     /// `FieldTensor::try_from_fields` (and the two `try_*_invariant_of`) refuse a finite `B`
     /// whose `cB` overflows (|B| above about 1.1e30 T in f32) with `NonFinite` instead of the
     /// documented `Overflow`.
-    pub const FIELD_CB_NON_FINITE: bool = true;
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    pub const FIELD_CB_NON_FINITE: bool = false;
     /// `Boost::rapidity` was `+inf` once `|u|²` overflowed (|u| above about 1.8e19 in f32);
     /// fixed on 2026-12-02 by the foundation engineer's `Boost::gamma_limit` (γ ≤ 1e12).
     pub const RAPIDITY_OVERFLOW: bool = false;
