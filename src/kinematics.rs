@@ -203,7 +203,8 @@ impl<T: Real> Motion<T> {
     /// [`try_from_kinetic_energy`](Self::try_from_kinetic_energy).
     ///
     /// # Errors
-    /// As [`try_from_kinetic_energy`](Self::try_from_kinetic_energy).
+    /// As [`try_from_kinetic_energy`](Self::try_from_kinetic_energy); [`Error::Overflow`] also
+    /// when the energy in eV does not fit the precision.
     ///
     /// # Examples
     /// ```
@@ -213,7 +214,9 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_kinetic_energy_kev(species: Species<T>, kinetic_kev: T) -> Result<Self, Error> {
-        Self::try_from_kinetic_energy(species, kinetic_kev * T::from_f64(1.0e3))
+        // A finite energy whose eV value overflows is too large, not non-finite.
+        let t = crate::finite(kinetic_kev)?;
+        Self::try_from_kinetic_energy(species, fits(t * T::from_f64(1.0e3))?)
     }
 
     /// Builds the state from the kinetic energy in MeV.
@@ -222,7 +225,8 @@ impl<T: Real> Motion<T> {
     /// [`try_from_kinetic_energy`](Self::try_from_kinetic_energy).
     ///
     /// # Errors
-    /// As [`try_from_kinetic_energy`](Self::try_from_kinetic_energy).
+    /// As [`try_from_kinetic_energy`](Self::try_from_kinetic_energy); [`Error::Overflow`] also
+    /// when the energy in eV does not fit the precision.
     ///
     /// # Examples
     /// ```
@@ -232,7 +236,9 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_kinetic_energy_mev(species: Species<T>, kinetic_mev: T) -> Result<Self, Error> {
-        Self::try_from_kinetic_energy(species, kinetic_mev * T::from_f64(1.0e6))
+        // A finite energy whose eV value overflows is too large, not non-finite.
+        let t = crate::finite(kinetic_mev)?;
+        Self::try_from_kinetic_energy(species, fits(t * T::from_f64(1.0e6))?)
     }
 
     /// Builds the state from the kinetic energy in GeV.
@@ -241,7 +247,8 @@ impl<T: Real> Motion<T> {
     /// [`try_from_kinetic_energy`](Self::try_from_kinetic_energy).
     ///
     /// # Errors
-    /// As [`try_from_kinetic_energy`](Self::try_from_kinetic_energy).
+    /// As [`try_from_kinetic_energy`](Self::try_from_kinetic_energy); [`Error::Overflow`] also
+    /// when the energy in eV does not fit the precision.
     ///
     /// # Examples
     /// ```
@@ -252,7 +259,9 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_kinetic_energy_gev(species: Species<T>, kinetic_gev: T) -> Result<Self, Error> {
-        Self::try_from_kinetic_energy(species, kinetic_gev * T::from_f64(1.0e9))
+        // A finite energy whose eV value overflows is too large, not non-finite.
+        let t = crate::finite(kinetic_gev)?;
+        Self::try_from_kinetic_energy(species, fits(t * T::from_f64(1.0e9))?)
     }
 
     /// Builds the state from the total energy `E = T + m` in eV.
@@ -1027,7 +1036,8 @@ impl<T: Real> Motion<T> {
     /// [Precision](self#precision)): worst 1.54 eps in `f32`, 1.14 eps in `f64`.
     ///
     /// # Errors
-    /// [`Error::ZeroCharge`] for a neutral species.
+    /// [`Error::ZeroCharge`] for a neutral species; [`Error::Overflow`] when the rigidity does
+    /// not fit the precision (a charge far below e).
     ///
     /// # Examples
     /// ```
@@ -1039,7 +1049,8 @@ impl<T: Real> Motion<T> {
     /// ```
     pub fn magnetic_rigidity(&self) -> Result<T, Error> {
         let q = nonzero_charge(self.species)?;
-        Ok(over_c(self.momentum / q))
+        // `fits`: a charge far below e can put the rigidity beyond the precision.
+        fits(over_c(self.momentum / q))
     }
 
     /// Electric rigidity `Eρ = pv/|q| = pc·β/|Q|` in V, computed as `(T + T·m/E)/|Q|`.
@@ -1051,7 +1062,8 @@ impl<T: Real> Motion<T> {
     /// 2.7 eps, published-checks §5).
     ///
     /// # Errors
-    /// [`Error::ZeroCharge`] for a neutral species.
+    /// [`Error::ZeroCharge`] for a neutral species; [`Error::Overflow`] when the rigidity does
+    /// not fit the precision (a charge far below e).
     ///
     /// # Examples
     /// ```
@@ -1065,7 +1077,7 @@ impl<T: Real> Motion<T> {
         let q = nonzero_charge(self.species)?;
         let m = self.species.rest_energy();
         let t = self.kinetic;
-        Ok((t + t * (m / self.total)) / q)
+        fits((t + t * (m / self.total)) / q)
     }
 }
 

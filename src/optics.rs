@@ -217,7 +217,8 @@ pub fn flight_time_difference<T: Real>(
 /// 1 MeV. Exact for any path (energy conservation; Jackson 3rd ed., from memory).
 ///
 /// # Errors
-/// [`Error::NonFinite`] for a non-finite potential difference.
+/// [`Error::NonFinite`] for a non-finite potential difference; [`Error::Overflow`] when `Q Δφ`
+/// does not fit the precision.
 ///
 /// # Examples
 /// ```
@@ -228,7 +229,7 @@ pub fn flight_time_difference<T: Real>(
 /// ```
 pub fn energy_gain<T: Real>(species: Species<T>, potential_difference_v: T) -> Result<T, Error> {
     let dphi = finite(potential_difference_v)?;
-    Ok(-(species.charge() * dphi))
+    finite(-(species.charge() * dphi)).map_err(|_| Error::Overflow)
 }
 
 /// The state after crossing a potential difference `Δφ` (V): `T' = T − Q Δφ`.
@@ -284,7 +285,8 @@ pub fn kick_angle<T: Real>(motion: &Motion<T>, integrated_field_tm: T) -> Result
 ///
 /// # Errors
 /// [`Error::ZeroCharge`]; [`Error::NonFinite`]; [`Error::NonPositiveLength`] for `L ≤ 0`;
-/// [`Error::AngleOutOfRange`] when `L |B| > Bρ` (the particle turns back inside the magnet).
+/// [`Error::AngleOutOfRange`] when `L |B| > Bρ` (the particle turns back inside the magnet);
+/// [`Error::Overflow`] when `Bρ` does not fit the precision (a charge far below e).
 ///
 /// # Examples
 /// ```
@@ -313,7 +315,8 @@ pub fn kick_angle_hard_edge<T: Real>(
 /// Integrated field a thin corrector needs for a wanted angle: `∫B dl = ±θ Bρ` in T m.
 ///
 /// # Errors
-/// [`Error::ZeroCharge`]; [`Error::NonFinite`].
+/// [`Error::ZeroCharge`]; [`Error::NonFinite`]; [`Error::Overflow`] when `θ Bρ` does not fit the
+/// precision.
 ///
 /// # Examples
 /// ```
@@ -327,7 +330,7 @@ pub fn kick_angle_hard_edge<T: Real>(
 pub fn integrated_field_for_angle<T: Real>(motion: &Motion<T>, angle_rad: T) -> Result<T, Error> {
     let theta = finite(angle_rad)?;
     let brho = motion.magnetic_rigidity()?;
-    Ok(charge_sign(motion) * theta * brho)
+    finite(charge_sign(motion) * theta * brho).map_err(|_| Error::Overflow)
 }
 
 /// Field a hard-edge dipole of length `L` needs for a wanted bend: `B = ±Bρ sin θ / L` in T.

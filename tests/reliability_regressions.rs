@@ -116,3 +116,60 @@ fn finite_field_too_large_is_refused_as_overflow() {
         Err(Error::NonFinite)
     );
 }
+
+/// Found by the `motion` fuzz target: the rigidities of a species of tiny charge (f64, Q = 1e-300)
+/// were `Ok(+inf)`, and a finite energy in keV whose eV value overflows (f32 1e36 keV) was refused
+/// as `NonFinite`. Both are `Overflow` now.
+#[test]
+fn rigidity_and_unit_overflows_are_refused_as_overflow() {
+    use fourforce::{Motion, Species};
+    let s = Species::<f64>::try_new(938.272e6, 1.0e-300).unwrap();
+    let m = Motion::try_from_kinetic_energy(s, 1.0e9).unwrap();
+    assert_eq!(m.magnetic_rigidity(), Err(Error::Overflow));
+    assert_eq!(m.electric_rigidity(), Err(Error::Overflow));
+    let p = Species::<f32>::PROTON;
+    assert_eq!(
+        Motion::try_from_kinetic_energy_kev(p, 1.0e36),
+        Err(Error::Overflow)
+    );
+    assert_eq!(
+        Motion::try_from_kinetic_energy_mev(p, 1.0e33),
+        Err(Error::Overflow)
+    );
+    assert_eq!(
+        Motion::try_from_kinetic_energy_gev(p, 1.0e30),
+        Err(Error::Overflow)
+    );
+    assert_eq!(
+        Motion::try_from_kinetic_energy_kev(p, f32::NAN),
+        Err(Error::NonFinite)
+    );
+    // Ordinary values are untouched.
+    assert!(
+        Motion::try_from_kinetic_energy_mev(p, 250.0)
+            .unwrap()
+            .magnetic_rigidity()
+            .unwrap()
+            > 2.4
+    );
+}
+
+/// Found by the `optics` fuzz target: `energy_gain` of an alpha across -2.5525757e38 V (f32) and
+/// the integrated field for 3e38 rad on a 1 TeV proton were `Ok(inf)`; both are `Overflow` now.
+#[test]
+fn optics_products_that_overflow_are_refused() {
+    use fourforce::{Motion, Species, optics};
+    assert_eq!(
+        optics::energy_gain(Species::<f32>::ALPHA, -2.552_575_7e38),
+        Err(Error::Overflow)
+    );
+    let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 1.0e12).unwrap();
+    assert_eq!(
+        optics::integrated_field_for_angle(&p, 3.0e38),
+        Err(Error::Overflow)
+    );
+    assert_eq!(
+        optics::energy_gain(Species::<f32>::ALPHA, -1.0e6),
+        Ok(2.0e6)
+    );
+}

@@ -107,7 +107,7 @@ fn run<T: Bits>(input: &mut Input<'_>) {
                     assert!(v.is_finite(), "energy_gain({a:?}) = {v:?}");
                 }
             }
-            Err(e) => refusal("gain", e, &[NonFinite]),
+            Err(e) => refusal("gain", e, &[NonFinite, Overflow]),
         },
         6 => match optics::after_potential_difference(&m, a) {
             Ok(next) => {
@@ -131,7 +131,13 @@ fn run<T: Bits>(input: &mut Input<'_>) {
             Err(e) => refusal(
                 "hard edge",
                 e,
-                &[ZeroCharge, NonFinite, NonPositiveLength, AngleOutOfRange],
+                &[
+                    ZeroCharge,
+                    NonFinite,
+                    NonPositiveLength,
+                    AngleOutOfRange,
+                    Overflow,
+                ],
             ),
         },
         9 => match optics::integrated_field_for_angle(&m, a) {
@@ -141,7 +147,7 @@ fn run<T: Bits>(input: &mut Input<'_>) {
                     assert!(v.is_finite(), "integrated field {v:?}");
                 }
             }
-            Err(e) => refusal("integrated field", e, &[ZeroCharge, NonFinite]),
+            Err(e) => refusal("integrated field", e, &[ZeroCharge, NonFinite, Overflow]),
         },
         10 => match optics::field_for_angle_hard_edge(&m, a, b) {
             Ok(v) => {

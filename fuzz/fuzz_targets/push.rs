@@ -121,7 +121,6 @@ fn drive<T: Bits, P: Pusher<T>>(pusher: P, input: &mut Input<'_>, steps: u32, st
     } else {
         b_norm * rotation
     };
-    b64.iter().map(|x| x * x).sum::<f64>().sqrt() * pusher.factors().rotation().to_f64().abs();
     let slack = 1.0 + tau * tau;
     if start {
         let before = p;

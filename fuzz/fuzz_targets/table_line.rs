@@ -85,7 +85,13 @@ fn run<T: Real + FromStr + LowerExp>(text: &str) {
                     values.push(e);
                 }
                 (Ok(_), Ok(_)) => {}
-                (b, e) => panic!("rigidities of a charged species refused: {b:?} {e:?}"),
+                (b, e) => assert!(
+                    !rigidities_fit
+                        && [b, e]
+                            .iter()
+                            .all(|r| matches!(r, Ok(_) | Err(fourforce::Error::Overflow))),
+                    "rigidities of a charged species refused: {b:?} {e:?}"
+                ),
             }
             match optics::revolution_frequency(&m, T::ONE) {
                 Ok(f) => values.push(f),

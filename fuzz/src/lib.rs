@@ -152,7 +152,8 @@ pub fn all_finite<T: Real>(xs: &[T]) -> bool {
 pub mod known {
     /// `try_from_kinetic_energy_{kev,mev,gev}` refuse a finite input whose conversion to eV
     /// overflows with `NonFinite` instead of `Overflow`.
-    pub const UNIT_CONVERSION_NON_FINITE: bool = true;
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    pub const UNIT_CONVERSION_NON_FINITE: bool = false;
     /// A species of tiny rest energy (`Species::try_new` accepts any positive one) gives
     /// accepted `Motion`s with NaN or inconsistent fields: below about 1e-19 eV in f32 (1e-154
     /// in f64) `m²` underflows (`try_from_electric_rigidity` with `Eρ = 0`: `β = NaN`,
@@ -163,14 +164,16 @@ pub mod known {
     /// (or `pc/|Q|`, formed before the division by `c`) does not fit the precision (a species of
     /// tiny charge, such as 1e-300 e in f64), instead
     /// of `Err(Error::Overflow)`.
-    pub const RIGIDITY_OK_INFINITE: bool = true;
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    pub const RIGIDITY_OK_INFINITE: bool = false;
     /// An accepted state whose `1 − β` underflows (`γ` beyond about 2^74 in f32, 2^537 in f64,
     /// reachable only through a species of tiny rest energy) holds `1 − β = 0` and `β = 1`
     /// (speed `c`) instead of refusing with `Error::Overflow`.
     pub const ONE_MINUS_BETA_UNDERFLOW: bool = true;
     /// `optics::energy_gain` and `optics::integrated_field_for_angle` return `Ok(±inf)` when
     /// their product overflows, instead of `Err(Error::Overflow)`.
-    pub const UNCHECKED_PRODUCTS: bool = true;
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    pub const UNCHECKED_PRODUCTS: bool = false;
     /// `FourVector::four_velocity_deviation` is `+inf` for a four-velocity with `u⁰` above
     /// about 1.8e19 (f32) or 1.3e154 (f64), though `try_four_velocity_from_momentum` accepts
     /// such four-velocities: the exact squares overflow.
@@ -323,15 +326,23 @@ pub fn check_motion<T: Real>(m: &fourforce::Motion<T>, door: u8, x: T, length: T
                 "{name} of a neutral species"
             );
         } else {
-            let v = r.unwrap_or_else(|e| panic!("{name} refused with {e:?} for {m:?}"));
-            // The true rigidity: pc/(c|Q|) or about T/|Q| (at most 2T/|Q|).
+            // The true rigidity: pc/(c|Q|) or about T/|Q| (at most 2T/|Q|); `pc/|Q|` is formed
+            // before the division by c.
             let q = s.charge().to_f64().abs();
             let true_size = (m.momentum().to_f64() / q).max(m.kinetic_energy().to_f64() / q);
-            let overflowed = known::RIGIDITY_OK_INFINITE
-                && v == T::INFINITY
-                && true_size > T::MAX.to_f64() / 4.0;
-            if !overflowed {
-                non_negative(name, v);
+            let too_big = true_size > T::MAX.to_f64() / 4.0;
+            match r {
+                // Refused as too large only where it is.
+                Err(e) => assert!(
+                    e == fourforce::Error::Overflow && too_big,
+                    "{name} refused with {e:?} for {m:?}"
+                ),
+                Ok(v) => {
+                    let overflowed = known::RIGIDITY_OK_INFINITE && v == T::INFINITY && too_big;
+                    if !overflowed {
+                        non_negative(name, v);
+                    }
+                }
             }
         }
     }
