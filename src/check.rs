@@ -566,7 +566,8 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
     /// Mean of the held readings.
     ///
     /// # Errors
-    /// [`Error::Empty`] when no reading is held.
+    /// [`Error::Empty`] when no reading is held; [`Error::Overflow`] when the readings
+    /// are so large (near the largest float) that their sums do not fit.
     ///
     /// # Examples
     /// ```
@@ -580,14 +581,16 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
         if self.len == 0 {
             Err(Error::Empty)
         } else {
-            Ok(self.mean)
+            // Readings near the largest float can overflow the running sums.
+            finite(self.mean).map_err(|_| Error::Overflow)
         }
     }
 
     /// Sample standard deviation `√(M₂ / (n - 1))` of the held readings; 0 for one reading.
     ///
     /// # Errors
-    /// [`Error::Empty`] when no reading is held.
+    /// [`Error::Empty`] when no reading is held; [`Error::Overflow`] when the readings
+    /// are so large (near the largest float) that their sums do not fit.
     ///
     /// # Examples
     /// ```
@@ -603,7 +606,9 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             1 => Ok(T::ZERO),
             n => {
                 let dof = T::from_u32(u32::try_from(n - 1).unwrap_or(u32::MAX));
-                Ok((self.m2.max(T::ZERO) / dof).sqrt())
+                // (`max` would turn a NaN M₂ into 0: check it first.)
+                let m2 = finite(self.m2).map_err(|_| Error::Overflow)?;
+                finite((m2.max(T::ZERO) / dof).sqrt()).map_err(|_| Error::Overflow)
             }
         }
     }
@@ -612,7 +617,8 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
     /// `Σ (i - ī)(xᵢ - x̄) / Σ (i - ī)²`.
     ///
     /// # Errors
-    /// [`Error::Empty`] with fewer than two readings.
+    /// [`Error::Empty`] with fewer than two readings; [`Error::Overflow`] when the readings
+    /// are so large (near the largest float) that their sums do not fit.
     ///
     /// # Examples
     /// ```
@@ -635,13 +641,14 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             sxy += di * (x - self.mean);
             sxx += di * di;
         }
-        Ok(sxy / sxx)
+        finite(sxy / sxx).map_err(|_| Error::Overflow)
     }
 
     /// The fitted change across the window, `slope · (n - 1)`, in the reading's unit.
     ///
     /// # Errors
-    /// [`Error::Empty`] with fewer than two readings.
+    /// [`Error::Empty`] with fewer than two readings; [`Error::Overflow`] when the readings
+    /// are so large (near the largest float) that their sums do not fit.
     ///
     /// # Examples
     /// ```
@@ -653,7 +660,7 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
     /// ```
     pub fn try_drift(&self) -> Result<T, Error> {
         let span = T::from_u32(u32::try_from(self.len.saturating_sub(1)).unwrap_or(u32::MAX));
-        Ok(self.try_slope()? * span)
+        finite(self.try_slope()? * span).map_err(|_| Error::Overflow)
     }
 
     /// [`Trend::Rising`] or [`Trend::Falling`] when the drift across the window exceeds
@@ -661,7 +668,8 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
     ///
     /// # Errors
     /// [`Error::Empty`] with fewer than two readings; [`Error::NonFinite`] or
-    /// [`Error::NegativeMagnitude`] for a bad threshold.
+    /// [`Error::NegativeMagnitude`] for a bad threshold; [`Error::Overflow`] as for
+    /// [`try_drift`](Self::try_drift).
     ///
     /// # Examples
     /// ```

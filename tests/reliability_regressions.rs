@@ -173,3 +173,31 @@ fn optics_products_that_overflow_are_refused() {
         Ok(2.0e6)
     );
 }
+
+/// Found by the `check` fuzz target: readings near `f32::MAX` overflowed the window's sums, and
+/// the statistics came back as `Ok`: readings (3e38, 3e38, -3e38, 1, 2) gave mean +inf, spread
+/// +inf, drift NaN and trend `Steady` (a corrupted register read as a steady beam); readings
+/// (-4.2505569e37, 3.5e-43, 0) gave spread +inf. All are `Overflow` now.
+#[test]
+fn window_statistics_that_overflow_are_refused() {
+    use fourforce::check::MovingWindow;
+    let mut w = MovingWindow::<f32, 5>::new();
+    for x in [3.0e38_f32, 3.0e38, -3.0e38, 1.0, 2.0] {
+        w.try_push(x).unwrap();
+    }
+    assert_eq!(w.try_mean(), Err(Error::Overflow));
+    assert_eq!(w.try_spread(), Err(Error::Overflow));
+    assert_eq!(w.try_drift(), Err(Error::Overflow));
+    assert_eq!(w.try_trend(1.0), Err(Error::Overflow));
+    let mut w = MovingWindow::<f32, 5>::new();
+    for x in [-4.250_557e37_f32, 3.5e-43, 0.0] {
+        w.try_push(x).unwrap();
+    }
+    assert_eq!(w.try_spread(), Err(Error::Overflow));
+    // Ordinary readings are untouched.
+    let mut w = MovingWindow::<f32, 4>::new();
+    for x in [1.0_f32, 2.0, 6.0] {
+        w.try_push(x).unwrap();
+    }
+    assert_eq!(w.try_mean(), Ok(3.0));
+}

@@ -200,7 +200,8 @@ pub mod known {
     pub const WINDOW_AROUND_NON_FINITE: bool = true;
     /// `MovingWindow` statistics of finite readings near `MAX` are `inf` or NaN (sums of the
     /// readings or of their squared deviations overflow).
-    pub const WINDOW_STATISTICS_OVERFLOW: bool = true;
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    pub const WINDOW_STATISTICS_OVERFLOW: bool = false;
 
     /// True when `rest` is below 1 eV (far below any charged particle's, but accepted by
     /// `Species::try_new`): the species the `TINY_REST_ENERGY_NAN` finding concerns. Below the
