@@ -62,6 +62,10 @@ pub enum Error {
     // --- motion ---
     /// A feedback gain was outside the range where the loop converges (0 < g < 2).
     GainOutOfRange,
+    // --- species ---
+    /// A rest energy was below 1 eV: far below any charged particle's, and where the states of
+    /// motion would underflow.
+    RestEnergyTooSmall,
 }
 
 impl fmt::Display for Error {
@@ -85,6 +89,7 @@ impl fmt::Display for Error {
             Error::Empty => "no values where at least one is needed",
             Error::InvalidRange => "lower bound is above upper bound",
             Error::GainOutOfRange => "feedback gain is outside (0, 2)",
+            Error::RestEnergyTooSmall => "rest energy is below 1 eV",
         })
     }
 }

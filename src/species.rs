@@ -136,6 +136,18 @@ impl<T: Real> Species<T> {
         }
     }
 
+    /// The smallest rest energy [`try_new`](Self::try_new) accepts: 1 eV.
+    ///
+    /// Far below any charged particle's (the electron's is 511 keV); below it the states of
+    /// motion lose their consistency to underflow (`m²`, `βγ·m`), in `f32` first.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Species;
+    /// assert_eq!(Species::<f32>::MIN_REST_ENERGY, 1.0);
+    /// ```
+    pub const MIN_REST_ENERGY: T = T::ONE;
+
     /// Builds a species from a rest energy (eV) and a charge (units of `e`), checking both.
     ///
     /// A zero charge is accepted (a neutral species has a speed and a momentum); the quantities
@@ -143,13 +155,15 @@ impl<T: Real> Species<T> {
     ///
     /// # Errors
     /// [`Error::NonFinite`] if either value is NaN or infinite; [`Error::NonPositiveMass`] if the
-    /// rest energy is zero or negative.
+    /// rest energy is zero or negative; [`Error::RestEnergyTooSmall`] if it is below
+    /// [`MIN_REST_ENERGY`](Self::MIN_REST_ENERGY) (1 eV).
     ///
     /// # Examples
     /// ```
     /// use fourforce::{Error, Species};
     /// assert!(Species::try_new(1.0e9_f32, 1.0).is_ok());
     /// assert_eq!(Species::try_new(-1.0_f32, 1.0), Err(Error::NonPositiveMass));
+    /// assert_eq!(Species::try_new(1.0e-20_f32, 1.0), Err(Error::RestEnergyTooSmall));
     /// ```
     pub fn try_new(rest_energy: T, charge: T) -> Result<Self, Error> {
         if !rest_energy.is_finite() || !charge.is_finite() {
@@ -157,6 +171,9 @@ impl<T: Real> Species<T> {
         }
         if rest_energy <= T::ZERO {
             return Err(Error::NonPositiveMass);
+        }
+        if rest_energy < Self::MIN_REST_ENERGY {
+            return Err(Error::RestEnergyTooSmall);
         }
         Ok(Self::new(rest_energy, charge))
     }
@@ -174,7 +191,8 @@ impl<T: Real> Species<T> {
     ///
     /// # Errors
     /// [`Error::NonFinite`] for a non-finite mass or binding energy; [`Error::NonPositiveMass`]
-    /// when the result is not positive (for example a zero atomic mass).
+    /// when the result is not positive (for example a zero atomic mass);
+    /// [`Error::RestEnergyTooSmall`] when it is positive but below 1 eV.
     ///
     /// # Examples
     /// ```
@@ -276,5 +294,16 @@ mod tests {
             Species::<f32>::try_from_atom(0.0, 0, 0.0),
             Err(Error::NonPositiveMass)
         );
+        // Fuzz finding: a rest energy of 7.3e-40 eV (f32) gave a state with beta = NaN from
+        // E rho = 0; anything below 1 eV is now refused.
+        assert_eq!(
+            Species::try_new(7.346_84e-40_f32, 1.0),
+            Err(Error::RestEnergyTooSmall)
+        );
+        assert_eq!(
+            Species::try_new(0.999_999_94_f32, 1.0),
+            Err(Error::RestEnergyTooSmall)
+        );
+        assert!(Species::try_new(1.0_f64, -1.0).is_ok());
     }
 }

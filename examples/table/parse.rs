@@ -53,7 +53,7 @@ impl fmt::Display for LineError {
                 )
             }
             Self::ZeroCharge => write!(f, "zero charge: the rigidities need a charged species"),
-            Self::BadRestEnergy => write!(f, "rest energy must be positive and finite"),
+            Self::BadRestEnergy => write!(f, "rest energy must be finite and at least 1 eV"),
             Self::NotANumber(s) => write!(f, "kinetic energy `{s}` is not a number"),
             Self::NegativeEnergy => write!(f, "kinetic energy is negative"),
             Self::NonFiniteEnergy => write!(f, "kinetic energy is not finite"),

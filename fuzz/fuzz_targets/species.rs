@@ -8,7 +8,7 @@ use libfuzzer_sys::fuzz_target;
 fn run<T: Bits>(input: &mut Input<'_>) {
     let rest = input.real::<T>();
     let charge = input.real::<T>();
-    let valid = rest.is_finite() && charge.is_finite() && rest > T::ZERO;
+    let valid = rest.is_finite() && charge.is_finite() && rest >= T::ONE;
     match Species::try_new(rest, charge) {
         Ok(s) => {
             assert!(valid, "try_new accepted rest={rest:?} charge={charge:?}");
@@ -26,10 +26,12 @@ fn run<T: Bits>(input: &mut Input<'_>) {
                 !valid,
                 "try_new refused rest={rest:?} charge={charge:?} with {e:?}"
             );
-            let expected = if rest.is_finite() && charge.is_finite() {
+            let expected = if !(rest.is_finite() && charge.is_finite()) {
+                Error::NonFinite
+            } else if rest <= T::ZERO {
                 Error::NonPositiveMass
             } else {
-                Error::NonFinite
+                Error::RestEnergyTooSmall
             };
             assert_eq!(e, expected);
         }
@@ -54,7 +56,12 @@ fn run<T: Bits>(input: &mut Input<'_>) {
         refused(
             "try_from_atom",
             r,
-            &[Error::NonPositiveMass, Error::NonFinite, Error::Overflow],
+            &[
+                Error::NonPositiveMass,
+                Error::RestEnergyTooSmall,
+                Error::NonFinite,
+                Error::Overflow,
+            ],
         );
     }
 }

@@ -159,7 +159,9 @@ pub mod known {
     /// in f64) `m²` underflows (`try_from_electric_rigidity` with `Eρ = 0`: `β = NaN`,
     /// `1 − β = inf`); below 1 eV `pc = βγ·m` can underflow to 0 while `β > 0` (flight time
     /// `+inf` for a moving state, f32 `m = 1.16e-15`, `βγ = 4.3e-35`).
-    pub const TINY_REST_ENERGY_NAN: bool = true;
+    /// Fixed on 2026-12-02 (`Species::try_new` refuses below 1 eV with `RestEnergyTooSmall`;
+    /// regression test in `src/species.rs`).
+    pub const TINY_REST_ENERGY_NAN: bool = false;
     /// `Motion::magnetic_rigidity` and `electric_rigidity` return `Ok(+inf)` when the rigidity
     /// (or `pc/|Q|`, formed before the division by `c`) does not fit the precision (a species of
     /// tiny charge, such as 1e-300 e in f64), instead
@@ -169,7 +171,9 @@ pub mod known {
     /// An accepted state whose `1 − β` underflows (`γ` beyond about 2^74 in f32, 2^537 in f64,
     /// reachable only through a species of tiny rest energy) holds `1 − β = 0` and `β = 1`
     /// (speed `c`) instead of refusing with `Error::Overflow`.
-    pub const ONE_MINUS_BETA_UNDERFLOW: bool = true;
+    /// Unreachable since 2026-12-02: with rest energies of at least 1 eV, `γ` stays below the
+    /// largest kinetic energy a state accepts (about 2^64 in f32, 2^512 in f64).
+    pub const ONE_MINUS_BETA_UNDERFLOW: bool = false;
     /// `optics::energy_gain` and `optics::integrated_field_for_angle` return `Ok(±inf)` when
     /// their product overflows, instead of `Err(Error::Overflow)`.
     /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
