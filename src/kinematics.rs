@@ -330,19 +330,15 @@ impl<T: Real> Motion<T> {
         }
         let g1 = g - T::ONE;
         let bg = fits((g1 * (g + T::ONE)).sqrt())?;
-        let m = species.rest_energy();
         let one_minus_beta = T::ONE / g / (g + bg);
-        Ok(Self {
+        Self::from_parts(
             species,
-            kinetic: fits(g1 * m)?,
-            gamma_minus_one: g1,
-            gamma: g,
-            total: fits(g * m)?,
-            momentum: fits(bg * m)?,
-            beta_gamma: bg,
-            beta: beta_from(bg / g, one_minus_beta),
+            g1,
+            g,
+            bg,
+            beta_from(bg / g, one_minus_beta),
             one_minus_beta,
-        })
+        )
     }
 
     /// Builds the state from `β = v/c`.
@@ -395,16 +391,28 @@ impl<T: Real> Motion<T> {
         } else {
             T::ONE / s
         };
-        let bg = beta * gamma;
+        Self::from_parts(species, g1, gamma, beta * gamma, beta, one_minus_beta)
+    }
+
+    /// The state from `γ − 1`, `γ`, `βγ`, `β` and `1 − β`, each already free of cancellation;
+    /// the energies follow by one multiplication by the rest energy each.
+    fn from_parts(
+        species: Species<T>,
+        gamma_minus_one: T,
+        gamma: T,
+        beta_gamma: T,
+        beta: T,
+        one_minus_beta: T,
+    ) -> Result<Self, Error> {
         let m = species.rest_energy();
         Ok(Self {
             species,
-            kinetic: fits(g1 * m)?,
-            gamma_minus_one: g1,
+            kinetic: fits(gamma_minus_one * m)?,
+            gamma_minus_one,
             gamma: fits(gamma)?,
             total: fits(gamma * m)?,
-            momentum: fits(bg * m)?,
-            beta_gamma: bg,
+            momentum: fits(beta_gamma * m)?,
+            beta_gamma,
             beta,
             one_minus_beta,
         })
@@ -436,19 +444,9 @@ impl<T: Real> Motion<T> {
         }
         let gamma = fits((T::ONE + bg * bg).sqrt())?;
         let g1 = bg * (bg / (gamma + T::ONE));
-        let m = species.rest_energy();
         let one_minus_beta = T::ONE / gamma / (gamma + bg);
-        Ok(Self {
-            species,
-            kinetic: fits(g1 * m)?,
-            gamma_minus_one: g1,
-            gamma,
-            total: fits(gamma * m)?,
-            momentum: fits(bg * m)?,
-            beta_gamma: bg,
-            beta: beta_from(bg / gamma, one_minus_beta),
-            one_minus_beta,
-        })
+        let beta = beta_from(bg / gamma, one_minus_beta);
+        Self::from_parts(species, g1, gamma, bg, beta, one_minus_beta)
     }
 
     /// Builds the state from the momentum `pc` in eV (momentum in eV/c).
