@@ -54,21 +54,21 @@ pub enum Verdict<T: Real> {
     Inside {
         /// Inferred kinetic energy in eV.
         kinetic_energy_ev: T,
-        /// Relative deviation from the nominal energy, `(T - T_nom) / T_nom`.
+        /// Relative deviation from the nominal energy, `(T - T_nom) / T_nom`, at most `MAX`.
         deviation: T,
     },
     /// Below the lower bound.
     Low {
         /// Inferred kinetic energy in eV.
         kinetic_energy_ev: T,
-        /// Relative deviation from the nominal energy, `(T - T_nom) / T_nom`.
+        /// Relative deviation from the nominal energy, `(T - T_nom) / T_nom`, at most `MAX`.
         deviation: T,
     },
     /// Above the upper bound.
     High {
         /// Inferred kinetic energy in eV.
         kinetic_energy_ev: T,
-        /// Relative deviation from the nominal energy, `(T - T_nom) / T_nom`.
+        /// Relative deviation from the nominal energy, `(T - T_nom) / T_nom`, at most `MAX`.
         deviation: T,
     },
     /// No particle of the species could give this reading; the error says why.
@@ -191,7 +191,8 @@ impl<T: Real> EnergyWindow<T> {
     ///
     /// # Errors
     /// [`Error::NonFinite`]; [`Error::InvalidRange`] for a tolerance outside `[0, 1]` or a
-    /// nominal energy that is not positive.
+    /// nominal energy that is not positive; [`Error::Overflow`] if `nominal (1 + tol)` does not
+    /// fit the precision.
     ///
     /// # Examples
     /// ```
@@ -210,12 +211,11 @@ impl<T: Real> EnergyWindow<T> {
             return Err(Error::InvalidRange);
         }
         let nominal = finite(nominal_ev)?;
-        Self::try_new(
-            species,
-            nominal * (T::ONE - tol),
-            nominal,
-            nominal * (T::ONE + tol),
-        )
+        let high = nominal * (T::ONE + tol);
+        if !high.is_finite() {
+            return Err(Error::Overflow);
+        }
+        Self::try_new(species, nominal * (T::ONE - tol), nominal, high)
     }
 
     /// The species the window is for.
@@ -365,7 +365,8 @@ impl<T: Real> EnergyWindow<T> {
     }
 
     fn classify(&self, t: T) -> Verdict<T> {
-        let deviation = (t - self.nominal) / self.nominal;
+        // Saturated at MAX: a reading far above a tiny (subnormal) nominal energy would overflow.
+        let deviation = ((t - self.nominal) / self.nominal).min(T::MAX);
         if t < self.low {
             Verdict::Low {
                 kinetic_energy_ev: t,

@@ -196,6 +196,12 @@ pub trait Real:
     fn max(self, other: Self) -> Self;
     /// The raw bits, widened to `u64`.
     fn to_bits_u64(self) -> u64;
+    /// The binary exponent `e` with `2^e ≤ |self| < 2^(e+1)` (`libm::ilogbf`/`ilogb`; subnormals
+    /// included; `i32::MIN` for 0, `i32::MAX` for NaN and the infinities).
+    fn ilogb(self) -> i32;
+    /// `self · 2^n`, exact unless the result overflows or falls into the subnormals
+    /// (`libm::scalbnf`/`scalbn`).
+    fn scalbn(self, n: i32) -> Self;
 }
 
 macro_rules! impl_real {
@@ -203,7 +209,8 @@ macro_rules! impl_real {
      $sqrt:ident, $hypot:ident, $fabs:ident, $fma:ident, $sin:ident, $cos:ident, $tan:ident,
      $asin:ident, $acos:ident, $atan:ident, $atan2:ident, $sinh:ident, $cosh:ident,
      $tanh:ident, $atanh:ident, $exp:ident, $expm1:ident, $log:ident, $log1p:ident,
-     $round:ident, $floor:ident, $copysign:ident, $fmin:ident, $fmax:ident) => {
+     $round:ident, $floor:ident, $copysign:ident, $fmin:ident, $fmax:ident, $ilogb:ident,
+     $scalbn:ident) => {
         impl Real for $t {
             const ZERO: Self = 0.0;
             const ONE: Self = 1.0;
@@ -361,6 +368,14 @@ macro_rules! impl_real {
             fn to_bits_u64(self) -> u64 {
                 self.to_bits() as u64
             }
+            #[inline(always)]
+            fn ilogb(self) -> i32 {
+                libm::$ilogb(self)
+            }
+            #[inline(always)]
+            fn scalbn(self, n: i32) -> Self {
+                libm::$scalbn(self, n)
+            }
         }
     };
 }
@@ -394,7 +409,9 @@ impl_real!(
     floorf,
     copysignf,
     fminf,
-    fmaxf
+    fmaxf,
+    ilogbf,
+    scalbnf
 );
 impl_real!(
     f64,
@@ -425,7 +442,9 @@ impl_real!(
     floor,
     copysign,
     fmin,
-    fmax
+    fmax,
+    ilogb,
+    scalbn
 );
 
 /// Returns `Ok(x)` when `x` is finite, else [`Error::NonFinite`](crate::Error::NonFinite).

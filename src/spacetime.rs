@@ -374,7 +374,9 @@ impl<T: Real> FourVector<T> {
     /// relative deviation at every energy. A four-velocity built by this crate reads within
     /// 3 eps (measured: 2.34 eps in `f32`, electron and proton from 1 eV to 100 TeV); a tolerance
     /// of 8 eps leaves a margin.
-    /// Edges: `+∞` when a component is not finite or `u⁰ = 0`, so that it fails any tolerance.
+    /// Edges: `+∞` when a component is not finite, `u⁰ = 0`, or `u⁰` is so small (subnormal)
+    /// that the figure overflows, so that it fails any tolerance. Finite for every finite `u⁰`
+    /// of at least 1, up to `MAX`.
     ///
     /// # Examples
     /// ```
@@ -390,13 +392,18 @@ impl<T: Real> FourVector<T> {
         if !self.is_finite() || self.time == T::ZERO {
             return T::INFINITY;
         }
+        // Scaled by 2^-e (exact) so that u⁰ lies in [1, 2): the squares cannot overflow however
+        // large u⁰ is, and the figure is the unscaled one wherever no scaled product underflows.
+        let e = self.time.ilogb();
+        let scaled = |x: T| x.scalbn(-e);
+        let time = scaled(self.time);
         let mut acc = Accumulator::new();
-        acc.add_product(self.time, self.time);
-        acc.add(T::NEG_ONE);
-        acc.sub_product(self.space.x, self.space.x);
-        acc.sub_product(self.space.y, self.space.y);
-        acc.sub_product(self.space.z, self.space.z);
-        let d = acc.value() / self.time / self.time;
+        acc.add_product(time, time);
+        acc.sub_product(scaled(T::ONE), scaled(T::ONE));
+        acc.sub_product(scaled(self.space.x), scaled(self.space.x));
+        acc.sub_product(scaled(self.space.y), scaled(self.space.y));
+        acc.sub_product(scaled(self.space.z), scaled(self.space.z));
+        let d = acc.value() / time / time;
         if d.is_finite() { d } else { T::INFINITY }
     }
 

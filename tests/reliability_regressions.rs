@@ -201,3 +201,92 @@ fn window_statistics_that_overflow_are_refused() {
     }
     assert_eq!(w.try_mean(), Ok(3.0));
 }
+
+/// Found by the `four_vector` fuzz target: `four_velocity_deviation` was +inf for the
+/// four-velocity of a proton with pc = 1e30 eV in f32 (u⁰ ≈ 1.1e21, above √MAX ≈ 1.8e19), which
+/// `try_four_velocity_from_momentum` accepts: the squares overflowed. The components are now
+/// scaled by a power of two first.
+#[test]
+fn deviation_of_a_huge_four_velocity_is_finite() {
+    use fourforce::{FourVector, Species};
+    let u = FourVector::try_four_velocity_from_momentum(
+        Species::<f32>::PROTON,
+        ThreeVector::new(1.0e30, 2.0e29, -3.0e29),
+    )
+    .unwrap();
+    assert!(u.time > 1.0e21);
+    let d = u.four_velocity_deviation();
+    assert!(d.abs() <= 8.0 * f32::EPSILON, "deviation {d}");
+    // Up to f32::MAX: a stored u⁰ = MAX with |u| = MAX reads as normalised.
+    let edge = FourVector::new(f32::MAX, f32::MAX, 0.0, 0.0);
+    assert_eq!(edge.four_velocity_deviation(), 0.0);
+    // And the ordinary range is the unscaled figure: (1.25² − 1 − 0.75²)/1.25² = 0.
+    assert_eq!(
+        FourVector::new(1.25_f32, 0.75, 0.0, 0.0).four_velocity_deviation(),
+        0.0
+    );
+    assert_eq!(
+        FourVector::new(2.0_f64, 1.0, 1.0, 0.0).four_velocity_deviation(),
+        (4.0 - 1.0 - 2.0) / 4.0
+    );
+}
+
+/// Found by the `check` fuzz target: an `EnergyWindow` around a subnormal nominal energy gave
+/// verdicts with a deviation of +inf (f32 nominal 1e-40 eV, reading 1 eV), and
+/// `EnergyWindow::try_around(3e38, 0.5)` said `NonFinite` where `nominal (1 + tol)` overflows.
+#[test]
+fn energy_window_edges_are_finite_or_overflow() {
+    use fourforce::Species;
+    use fourforce::check::{EnergyWindow, Verdict};
+    let w = EnergyWindow::try_new(Species::<f32>::PROTON, 0.0, 1.0e-40, 2.0e-40).unwrap();
+    match w.check_kinetic_energy(1.0) {
+        Verdict::High { deviation, .. } => assert_eq!(deviation, f32::MAX),
+        other => panic!("{other:?}"),
+    }
+    assert_eq!(
+        EnergyWindow::try_around(Species::<f32>::PROTON, 3.0e38, 0.5),
+        Err(Error::Overflow)
+    );
+    assert!(EnergyWindow::try_around(Species::<f32>::PROTON, 2.0e38, 0.5).is_ok());
+}
+
+/// Seen by the `push` fuzz target (which tolerated it as a slack of 1 + τ²): with a step far longer than a gyration (|τ| = ω_c Δt/2 ≫ 1)
+/// Vay's γ, the root of its implicit quartic, fell below |u| (f32 electron, γ = 1000,
+/// |τ| = 5e5: on 198 of 200 steps), a speed above c; and its rotation cancelled terms of size
+/// |u||τ|/γ (|u| drifted by 2448 eps in 200 steps at γ = 10, |τ| = 500). γ now comes from the new
+/// u, the rotation takes the uncancelled form for |t| > 1 and σ is expanded.
+#[test]
+fn vay_keeps_gamma_consistent_at_long_steps() {
+    use fourforce::Species;
+    use fourforce::push::{LocalField, Pusher, Vay};
+    let pusher = Vay::try_new(Species::<f32>::ELECTRON, 1.0e-9).unwrap();
+    let eps = f64::from(f32::EPSILON);
+    for gamma0 in [1.5_f64, 10.0, 1000.0] {
+        for (tau, drift_bound) in [
+            (0.5_f32, 32.0),
+            (50.0, 64.0),
+            (500.0, 512.0),
+            (5.0e5, 1.0e6),
+        ] {
+            let bz = tau / pusher.factors().rotation().abs();
+            let field =
+                LocalField::new(ThreeVector::ZERO, ThreeVector::new(0.3 * bz, 0.1 * bz, bz));
+            let n0 = (gamma0 * gamma0 - 1.0).sqrt();
+            let mut u = ThreeVector::new(0.6 * n0 as f32, 0.8 * n0 as f32, 0.0);
+            let mut gamma = gamma0 as f32;
+            for _ in 0..200 {
+                (u, gamma) = pusher.push_momentum(u, gamma, &field);
+                let n = f64::from(u.x).hypot(f64::from(u.y)).hypot(f64::from(u.z));
+                let consistent = n.hypot(1.0);
+                assert!(
+                    (f64::from(gamma) / consistent - 1.0).abs() <= 2.0 * eps,
+                    "γ0 {gamma0} τ {tau}: γ {gamma} against √(1 + |u|²) = {consistent}"
+                );
+                assert!(
+                    (n / n0 - 1.0).abs() <= drift_bound * eps,
+                    "γ0 {gamma0} τ {tau}: |u| {n} from {n0}"
+                );
+            }
+        }
+    }
+}

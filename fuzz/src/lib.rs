@@ -181,7 +181,9 @@ pub mod known {
     /// `FourVector::four_velocity_deviation` is `+inf` for a four-velocity with `u⁰` above
     /// about 1.8e19 (f32) or 1.3e154 (f64), though `try_four_velocity_from_momentum` accepts
     /// such four-velocities: the exact squares overflow.
-    pub const DEVIATION_OVERFLOW: bool = true;
+    /// Fixed on 2026-12-02 (scaled by a power of two; regression test in
+    /// `tests/reliability_regressions.rs`).
+    pub const DEVIATION_OVERFLOW: bool = false;
     /// `FourVector::try_four_velocity_from_momentum` returns `Ok` with `u⁰ = +inf` when every
     /// component of `pc/m` is finite but `|pc/m|` is not (for example three components of
     /// -2.56e38 in f32), instead of `Err(Error::Overflow)`.
@@ -198,10 +200,13 @@ pub mod known {
     pub const RAPIDITY_OVERFLOW: bool = false;
     /// `EnergyWindow` verdicts carry a deviation `(T − T_nom)/T_nom` of `±inf` when the quotient
     /// overflows (a subnormal nominal energy).
-    pub const VERDICT_DEVIATION_OVERFLOW: bool = true;
+    /// Fixed on 2026-12-02 (saturated at `MAX`; regression test in
+    /// `tests/reliability_regressions.rs`).
+    pub const VERDICT_DEVIATION_OVERFLOW: bool = false;
     /// `EnergyWindow::try_around` refuses a finite nominal energy whose `nominal (1 + tol)`
     /// overflows with `NonFinite` instead of `Overflow` or `InvalidRange`.
-    pub const WINDOW_AROUND_NON_FINITE: bool = true;
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    pub const WINDOW_AROUND_NON_FINITE: bool = false;
     /// `MovingWindow` statistics of finite readings near `MAX` are `inf` or NaN (sums of the
     /// readings or of their squared deviations overflow).
     /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).

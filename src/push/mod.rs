@@ -24,7 +24,7 @@
 //! | scheme | reference | property | √ per step |
 //! | --- | --- | --- | --- |
 //! | [`Boris`] | J. P. Boris, Proc. Fourth Conf. Numerical Simulation of Plasmas, NRL (1970) | volume-preserving; wrong `E × B` drift at large steps when relativistic | 2 |
-//! | [`Vay`] | J.-L. Vay, Physics of Plasmas 15, 056701 (2008) | exact `E × B` drift (keeps `E + v × B = 0`) | 2 |
+//! | [`Vay`] | J.-L. Vay, Physics of Plasmas 15, 056701 (2008) | exact `E × B` drift (keeps `E + v × B = 0`) | 3 |
 //! | [`HigueraCary`] | A. V. Higuera, J. R. Cary, Physics of Plasmas 24, 052104 (2017) | volume-preserving and exact `E × B` drift | 3 |
 //!
 //! All three are second order in time and conserve `|u|` when `E = 0` (the rotation is exact in
@@ -35,8 +35,25 @@
 //! beside it), so 2·10⁷ steps of 1 ns end at 0.02 s to within one rounding in `f32`, where a plain
 //! `t += Δt` is 10 % off.
 //!
+//! # Step size
+//! `τ = ω_c Δt / 2` per tesla is [`StepFactors::rotation`]; a relativistic particle gyrates
+//! `2 atan(|τ|/γ)` per step, against `2|τ|/γ` in the exact motion. The rule of thumb (common
+//! practice): keep `|τ|/γ ≤ 0.1` where the orbit matters (a phase error of `(τ/γ)²/3 ≈ 0.3 %`
+//! per step). Vay and Higuera-Cary still give the right `E × B` drift at longer steps. Far above
+//! `|τ| = 1` the rounding grows with `|τ|`: the measured drift of `|u|` over 200 steps in a pure
+//! `B` field, `f32`, electron, `γ` from 1.5 to 1000, is at most (in eps):
+//!
+//! | `|τ|` | 0.5 | 5 | 50 | 500 | 5000 | 50000 |
+//! | --- | --- | --- | --- | --- | --- | --- |
+//! | Boris | 3 | 11 | 24 | 12 | 27 | 14 |
+//! | Vay | 9 | 6 | 18 | 193 | 1426 | 15215 |
+//! | Higuera-Cary | 6 | 19 | 282 | 106 | 152 | 48 |
+//!
+//! All three return `γ = √(1 + |u|²)` of their new `u` (consistent to 1 eps at every `τ`), so a
+//! long step loses accuracy but never makes `u/γ` exceed `c` by more than a rounding.
+//!
 //! # For firmware authors
-//! A step is about 80 floating-point operations, 2–3 square roots and 3–4 divisions, no
+//! A step is about 80 floating-point operations, 2–3 square roots and 3–5 divisions, no
 //! allocation and no dynamic dispatch: the field source is a generic parameter.
 //!
 //! # Examples
