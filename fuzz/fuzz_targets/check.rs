@@ -96,8 +96,8 @@ fn run<T: Bits>(input: &mut Input<'_>) {
                 let valid =
                     a.is_finite() && a > T::ZERO && b.is_finite() && b >= T::ZERO && b <= T::ONE;
                 // (within an ulp of MAX: the rounding of nominal (1 + tol) decides)
-                let overflow = a.to_f64() * (1.0 + b.to_f64())
-                    > T::MAX.to_f64() * (1.0 - T::EPSILON.to_f64());
+                let overflow =
+                    a.to_f64() * (1.0 + b.to_f64()) > T::MAX.to_f64() * (1.0 - T::EPSILON.to_f64());
                 let overflow_error = e == Error::Overflow || known::WINDOW_AROUND_NON_FINITE;
                 assert!(
                     !valid || (overflow && overflow_error),

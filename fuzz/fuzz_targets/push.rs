@@ -32,8 +32,7 @@ fn check_particle<T: Bits>(what: &str, p: &Particle<T>) {
     );
     assert!(p.gamma_minus_one().is_finite() && p.gamma_minus_one() >= T::ZERO);
     assert!(
-        p.velocity().is_finite()
-            && p.velocity().norm().to_f64() <= 1.0 + 4.0 * T::EPSILON.to_f64()
+        p.velocity().is_finite() && p.velocity().norm().to_f64() <= 1.0 + 4.0 * T::EPSILON.to_f64()
     );
 }
 
