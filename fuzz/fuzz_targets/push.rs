@@ -86,7 +86,7 @@ fn drive<T: Bits, P: Pusher<T>>(pusher: P, input: &mut Input<'_>, steps: u32, st
     let mut p = match particle {
         Ok(p) => {
             assert!(x.is_finite() && u.is_finite() && t.is_finite());
-            check_particle("new", &p, 1.0);
+            check_particle("new", &p);
             p
         }
         Err(e) => {
