@@ -107,4 +107,37 @@ mod tests {
         let b = a;
         assert_eq!(a, b);
     }
+
+    /// Every variant reads as its own sentence (a log line must say which rule was broken).
+    #[test]
+    fn every_variant_has_its_own_message() {
+        extern crate std;
+        use std::{string::ToString, vec::Vec};
+        let all = [
+            Error::NonFinite,
+            Error::SpeedNotBelowLight,
+            Error::NonPositiveMass,
+            Error::NegativeEnergy,
+            Error::BelowRestEnergy,
+            Error::NegativeMagnitude,
+            Error::ZeroCharge,
+            Error::ZeroField,
+            Error::FasterThanLight,
+            Error::NonPositiveLength,
+            Error::ZeroDirection,
+            Error::AngleOutOfRange,
+            Error::Overflow,
+            Error::CapacityFull,
+            Error::OutOfBounds,
+            Error::Empty,
+            Error::InvalidRange,
+            Error::GainOutOfRange,
+            Error::RestEnergyTooSmall,
+        ];
+        let messages: Vec<_> = all.iter().map(ToString::to_string).collect();
+        for (i, m) in messages.iter().enumerate() {
+            assert!(m.len() > 8, "{:?}: {m:?}", all[i]);
+            assert!(!messages[..i].contains(m), "{:?} repeats {m:?}", all[i]);
+        }
+    }
 }

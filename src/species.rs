@@ -190,7 +190,8 @@ impl<T: Real> Species<T> {
     /// bare uranium ion (4e-6); pass it when f64 accuracy matters.
     ///
     /// # Errors
-    /// [`Error::NonFinite`] for a non-finite mass or binding energy; [`Error::NonPositiveMass`]
+    /// [`Error::NonFinite`] for a non-finite mass or binding energy; [`Error::Overflow`] when
+    /// the rest energy of finite inputs does not fit the precision; [`Error::NonPositiveMass`]
     /// when the result is not positive (for example a zero atomic mass);
     /// [`Error::RestEnergyTooSmall`] when it is positive but below 1 eV.
     ///
@@ -214,6 +215,9 @@ impl<T: Real> Species<T> {
         let n = T::from_u32(electrons_removed);
         let rest = atomic_mass_u * T::ATOMIC_MASS_UNIT_ENERGY - n * T::ELECTRON_REST_ENERGY
             + binding_energy;
+        if !rest.is_finite() {
+            return Err(Error::Overflow);
+        }
         Self::try_new(rest, n)
     }
 
@@ -305,5 +309,23 @@ mod tests {
             Err(Error::RestEnergyTooSmall)
         );
         assert!(Species::try_new(1.0_f64, -1.0).is_ok());
+    }
+
+    /// Found by mutation testing: a non-finite input was refused only through the NaN or ∞ it
+    /// gave the rest energy, and a finite atomic mass whose rest energy overflows said
+    /// `NonFinite`; it is `Overflow` now.
+    #[test]
+    fn atoms_refuse_each_bad_input_by_its_own_error() {
+        for (mass, binding) in [(f32::NAN, 0.0), (12.0, f32::INFINITY), (f32::NEG_INFINITY, 0.0)] {
+            assert_eq!(
+                Species::<f32>::try_from_atom(mass, 1, binding),
+                Err(Error::NonFinite),
+                "{mass} u, {binding} eV"
+            );
+        }
+        assert_eq!(
+            Species::<f32>::try_from_atom(1.0e30, 1, 0.0),
+            Err(Error::Overflow)
+        );
     }
 }

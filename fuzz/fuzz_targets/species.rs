@@ -59,7 +59,6 @@ fn run<T: Bits>(input: &mut Input<'_>) {
             &[
                 Error::NonPositiveMass,
                 Error::RestEnergyTooSmall,
-                Error::NonFinite,
                 Error::Overflow,
             ],
         );
