@@ -311,7 +311,7 @@ mod properties {
                 }
 
                 proptest! {
-                    #![proptest_config(ProptestConfig::with_cases(1000))]
+                    #![proptest_config(ProptestConfig::with_cases(cases(1000)))]
 
                     #[test]
                     fn centring_field_and_radius_invert(i in 0u8..5, x in 0.0f64..14.0, b in 0.01f64..10.0) {
@@ -373,4 +373,13 @@ mod properties {
 
     optics_properties!(in_f32, f32);
     optics_properties!(in_f64, f64);
+}
+
+/// The case count: `PROPTEST_CASES` when set (as for every other property test), else
+/// `default`, this file's own count (higher than proptest's 256: the inputs span 14 decades).
+fn cases(default: u32) -> u32 {
+    std::env::var("PROPTEST_CASES")
+        .ok()
+        .and_then(|v| v.parse().ok())
+        .unwrap_or(default)
 }

@@ -71,7 +71,7 @@ macro_rules! properties {
             type F = $t;
 
             proptest! {
-                #![proptest_config(ProptestConfig::with_cases(2000))]
+                #![proptest_config(ProptestConfig::with_cases(cases(2000)))]
 
                 #[test]
                 fn round_trips(pick in 0u8..12, m_exp in 5.0f64..11.4, q in -8i32..92, x in 0.0f64..14.0) {
@@ -262,3 +262,12 @@ macro_rules! properties {
 
 properties!(in_f32, f32);
 properties!(in_f64, f64);
+
+/// The case count: `PROPTEST_CASES` when set (as for every other property test), else
+/// `default`, this file's own count (higher than proptest's 256: the inputs span 14 decades).
+fn cases(default: u32) -> u32 {
+    std::env::var("PROPTEST_CASES")
+        .ok()
+        .and_then(|v| v.parse().ok())
+        .unwrap_or(default)
+}
