@@ -316,7 +316,11 @@ mod tests {
     /// `NonFinite`; it is `Overflow` now.
     #[test]
     fn atoms_refuse_each_bad_input_by_its_own_error() {
-        for (mass, binding) in [(f32::NAN, 0.0), (12.0, f32::INFINITY), (f32::NEG_INFINITY, 0.0)] {
+        for (mass, binding) in [
+            (f32::NAN, 0.0),
+            (12.0, f32::INFINITY),
+            (f32::NEG_INFINITY, 0.0),
+        ] {
             assert_eq!(
                 Species::<f32>::try_from_atom(mass, 1, binding),
                 Err(Error::NonFinite),

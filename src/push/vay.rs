@@ -19,9 +19,8 @@
 //! `1/(1 + |t|²)` is the same at every step, and in the first form it would scale `|u|` by the
 //! same factor each time (a drift of 2.7e-5 over 2000 steps in `f32`, measured). For `|t| > 1`
 //! (a step longer than a radian of gyration) the first form is computed: there `u'` is large and
-//! the second form would cancel it. `σ` is expanded so that it does not cancel either (see the
-//! code), and `γⁿ⁺¹` is returned as `√(1 + |uⁿ⁺¹|²)`, which keeps `γ` and `u` consistent at any
-//! step.
+//! the second form would cancel it. `γⁿ⁺¹` is returned as `√(1 + |uⁿ⁺¹|²)`, which keeps `γ`
+//! and `u` consistent at any step.
 //!
 //! If `E + vⁿ × B = 0` (the particle moves at the `E × B` velocity) then `u' = uⁿ + ε` and
 //! `uⁿ⁺¹ = uⁿ` solves the update exactly: the drift is exact at any step and any γ, where Boris
@@ -78,20 +77,14 @@ impl<T: Real> Pusher<T> for Vay<T> {
     ) -> (ThreeVector<T>, T) {
         let eps = field.electric * self.factors.kick;
         let tau = field.magnetic * self.factors.rotation;
-        let inv_gamma = T::ONE / gamma;
         let kicked = momentum + eps + eps;
-        let beta_cross_tau = (momentum * inv_gamma).cross(tau);
-        let u_prime = kicked + beta_cross_tau;
+        let u_prime = kicked + (momentum * (T::ONE / gamma)).cross(tau);
         let tau_sq = tau.norm_squared();
-        // u* = u'·τ = (uⁿ + 2ε)·τ, since (β × τ)·τ = 0.
+        // u* = u'·τ = (uⁿ + 2ε)·τ exactly, since (β × τ)·τ = 0: without the rounding of β × τ.
         let u_star = kicked.dot(tau);
-        // σ = 1 + |u'|² − |τ|², expanded so that nothing cancels when |τ| ≫ γ: with
-        // |β × τ|² − |τ|² = −(|τ|² + (uⁿ·τ)²)/γ² and uⁿ·(β × τ) = 0,
-        // σ = 1 + |uⁿ + 2ε|² + 4 ε·(β × τ) − (|τ|² + (uⁿ·τ)²)/γ².
-        let u_tau = momentum.dot(tau);
-        let sigma =
-            T::ONE + kicked.norm_squared() + (eps + eps).dot(beta_cross_tau + beta_cross_tau)
-                - (tau_sq + u_tau * u_tau) * (inv_gamma * inv_gamma);
+        // (σ expanded so that |u'|² − |τ|² does not cancel at |τ| ≫ γ halves the drift of |u|
+        // there, but multiplies it by 25 over 10⁶ ordinary steps in f32: measured, not kept.)
+        let sigma = T::ONE + u_prime.norm_squared() - tau_sq;
         let t = tau * (T::ONE / implicit_gamma_squared(sigma, tau_sq + u_star * u_star).sqrt());
         let t_sq = t.norm_squared();
         // (u' + (u'·t) t + u' × t) / (1 + t²). For |t| ≤ 1 written as u' plus a small correction,
