@@ -254,7 +254,7 @@ fn energy_window_edges_are_finite_or_overflow() {
 /// Vay's γ, the root of its implicit quartic, fell below |u| (f32 electron, γ = 1000,
 /// |τ| = 5e5: on 198 of 200 steps), a speed above c; and its rotation cancelled terms of size
 /// |u||τ|/γ (|u| drifted by 2448 eps in 200 steps at γ = 10, |τ| = 500). γ now comes from the new
-/// u, the rotation takes the uncancelled form for |t| > 1 and σ is expanded.
+/// u, and the rotation takes the uncancelled form for |t| > 1.
 #[test]
 fn vay_keeps_gamma_consistent_at_long_steps() {
     use fourforce::Species;
