@@ -128,3 +128,26 @@ macro_rules! sharper_gain {
 
 sharper_gain!(f32, gap_gain_carry_is_added_f32);
 sharper_gain!(f64, gap_gain_carry_is_added_f64);
+
+/// Survivors of the full run of 2026-12-02 (`ci/mutants`), one test per mutant or group.
+macro_rules! sharper_edges {
+    ($t:ident, $name:ident) => {
+        mod $name {
+            use super::*;
+            use fourforce::{Boost, Error, FourVector};
+
+            /// `γ > limit` refuses, `γ = limit` does not (`Boost::gamma_limit` is inclusive).
+            #[test]
+            fn boost_at_the_gamma_limit_is_accepted() {
+                let limit = Boost::<$t>::gamma_limit();
+                let at = FourVector::new(limit, limit, 0.0, 0.0);
+                assert_eq!(Boost::try_from_four_velocity(at).map(|b| b.gamma()), Ok(limit));
+                let above = FourVector::new(limit, 2.0 * limit, 0.0, 0.0);
+                assert_eq!(Boost::try_from_four_velocity(above), Err(Error::Overflow));
+            }
+        }
+    };
+}
+
+sharper_edges!(f32, edges_f32);
+sharper_edges!(f64, edges_f64);
