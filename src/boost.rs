@@ -716,8 +716,9 @@ impl<T: Real> LorentzTransform<T> {
                 worst = worst.max(d);
             }
         }
-        let s = r0[0] * r0[0];
-        if s > T::ZERO { worst / s } else { T::INFINITY }
+        // Λ⁰₀² is 0 only if Λ⁰₀ is 0 or its square underflows; column 0 then misses its norm
+        // by at least 1, and the quotient is +∞ as documented.
+        worst / (r0[0] * r0[0])
     }
 }
 
@@ -727,6 +728,20 @@ mod tests {
 
     static FRAME: Boost<f32> = Boost::IDENTITY;
     static CHAIN: LorentzTransform<f64> = LorentzTransform::IDENTITY;
+
+    #[test]
+    fn metric_deviation_without_a_time_component_is_infinite() {
+        let zero = LorentzTransform::from_matrix([[0.0_f32; 4]; 4]);
+        assert_eq!(zero.metric_deviation(), f32::INFINITY);
+        // Λ⁰₀ = 1e-30: its square underflows in f32.
+        let mut m = [[0.0_f32; 4]; 4];
+        m[0][0] = 1e-30;
+        for (i, row) in m.iter_mut().enumerate().skip(1) {
+            row[i] = 1.0;
+        }
+        assert_eq!(LorentzTransform::from_matrix(m).metric_deviation(), f32::INFINITY);
+        assert_eq!(CHAIN.metric_deviation(), 0.0);
+    }
 
     #[test]
     fn statics_hold_boosts_and_transforms() {
