@@ -739,7 +739,10 @@ mod tests {
         for (i, row) in m.iter_mut().enumerate().skip(1) {
             row[i] = 1.0;
         }
-        assert_eq!(LorentzTransform::from_matrix(m).metric_deviation(), f32::INFINITY);
+        assert_eq!(
+            LorentzTransform::from_matrix(m).metric_deviation(),
+            f32::INFINITY
+        );
         assert_eq!(CHAIN.metric_deviation(), 0.0);
     }
 

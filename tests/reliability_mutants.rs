@@ -141,7 +141,10 @@ macro_rules! sharper_edges {
             fn boost_at_the_gamma_limit_is_accepted() {
                 let limit = Boost::<$t>::gamma_limit();
                 let at = FourVector::new(limit, limit, 0.0, 0.0);
-                assert_eq!(Boost::try_from_four_velocity(at).map(|b| b.gamma()), Ok(limit));
+                assert_eq!(
+                    Boost::try_from_four_velocity(at).map(|b| b.gamma()),
+                    Ok(limit)
+                );
                 let above = FourVector::new(limit, 2.0 * limit, 0.0, 0.0);
                 assert_eq!(Boost::try_from_four_velocity(above), Err(Error::Overflow));
             }
@@ -151,3 +154,33 @@ macro_rules! sharper_edges {
 
 sharper_edges!(f32, edges_f32);
 sharper_edges!(f64, edges_f64);
+
+/// The low part of the two-part c (`C_LO` = 10 m/s in f32) where it decides the result: a speed
+/// 458 m/s below c, and a field 1e-6 from null. References: Python `decimal` at 50 digits, from
+/// c = 299 792 458 m/s exact (CODATA 2018); the invariant is the one of
+/// shared/reference/published-checks.md §6 (9.940 205 097e-7 T²).
+#[test]
+fn f32_results_near_c_use_the_low_part_of_c() {
+    use fourforce::{FieldTensor, FourVector};
+    let u =
+        FourVector::try_four_velocity_from_velocity(ThreeVector::new(299_792_000.0_f32, 0.0, 0.0))
+            .unwrap();
+    let eps = f64::from(f32::EPSILON);
+    assert!(
+        (f64::from(u.time) / 572.087_924_007_272_5 - 1.0).abs() <= 4.0 * eps,
+        "{u:?}"
+    );
+    assert!(
+        (f64::from(u.space.x) / 572.087_050_015_074_9 - 1.0).abs() <= 4.0 * eps,
+        "{u:?}"
+    );
+    let s = FieldTensor::try_scalar_invariant_of(
+        ThreeVector::new(0.0_f32, 149_896_080.0, 0.0),
+        ThreeVector::new(0.0_f32, 0.0, 0.5),
+    )
+    .unwrap();
+    assert!(
+        (f64::from(s) / 9.940_205_096_516_152e-7 - 1.0).abs() <= 4.0 * eps,
+        "{s}"
+    );
+}
