@@ -481,11 +481,18 @@ impl<T: Real> Motion<T> {
 
     /// The state from `pc` and `E = √((pc)² + m²)`, both accurate and finite.
     fn from_momentum_and_total(species: Species<T>, pc: T, total: T) -> Result<Self, Error> {
+        let t = pc * (pc / (total + species.rest_energy()));
+        Ok(Self::from_energies(species, t, total, pc))
+    }
+
+    /// The state from `T`, `E` and `pc`, all accurate and finite: `γ − 1 = T/m`; `γ = E/m` above
+    /// `T = m`, else `1 + (γ − 1)` (the more accurate of the two there);
+    /// `1 − β = (m/E)·(m/(E + pc))`.
+    fn from_energies(species: Species<T>, t: T, total: T, pc: T) -> Self {
         let m = species.rest_energy();
-        let t = pc * (pc / (total + m));
         let g1 = t / m;
         let one_minus_beta = (m / total) * (m / (total + pc));
-        Ok(Self {
+        Self {
             species,
             kinetic: t,
             gamma_minus_one: g1,
@@ -495,7 +502,7 @@ impl<T: Real> Motion<T> {
             beta_gamma: pc / m,
             beta: beta_from(pc / total, one_minus_beta),
             one_minus_beta,
-        })
+        }
     }
 
     /// Builds the state from the momentum in SI units, kg m/s.
@@ -554,11 +561,9 @@ impl<T: Real> Motion<T> {
         }
         // pc = (Bρ |Q|) · c with c = C_HI + C_LO and the product x · C_HI exact (Dekker), so pc
         // carries one rounding, not three.
+        // (An overflowing product is caught by `fits`: two_prod's error term is 0, not NaN, then.)
         let x = brho * q;
         let (p, e) = two_prod(x, T::C_HI);
-        if !p.is_finite() || !e.is_finite() {
-            return Err(Error::Overflow);
-        }
         Self::try_from_momentum(species, fits(p + (e + x * T::C_LO))?)
     }
 
@@ -594,20 +599,12 @@ impl<T: Real> Motion<T> {
         let two_m = m + m;
         let total = fits((w + (w * w + two_m * two_m).sqrt()) * T::HALF)?;
         let pc = fits((w * total).sqrt())?;
-        let t = w * (total / (total + m));
-        let g1 = t / m;
-        let one_minus_beta = (m / total) * (m / (total + pc));
-        Ok(Self {
+        Ok(Self::from_energies(
             species,
-            kinetic: t,
-            gamma_minus_one: g1,
-            gamma: if t > m { total / m } else { T::ONE + g1 },
+            w * (total / (total + m)),
             total,
-            momentum: pc,
-            beta_gamma: pc / m,
-            beta: beta_from(pc / total, one_minus_beta),
-            one_minus_beta,
-        })
+            pc,
+        ))
     }
 
     /// Builds the state from the speed `v` in m/s.
