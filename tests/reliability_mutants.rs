@@ -149,6 +149,26 @@ macro_rules! sharper_edges {
                 assert_eq!(Boost::try_from_four_velocity(above), Err(Error::Overflow));
             }
 
+            /// Each non-finite input is refused on its own, and `u⁰ = 0` reads as +∞.
+            #[test]
+            fn four_velocity_edges() {
+                let pc = ThreeVector::new(1.0, 0.0, 0.0);
+                let inf = Species::new(<$t>::INFINITY, 1.0);
+                assert_eq!(
+                    FourVector::try_four_velocity_from_momentum(inf, pc),
+                    Err(Error::NonFinite)
+                );
+                let nan = ThreeVector::new(<$t>::NAN, 0.0, 0.0);
+                assert_eq!(
+                    FourVector::try_four_velocity_from_momentum(Species::PROTON, nan),
+                    Err(Error::NonFinite)
+                );
+                let still = FourVector::<$t>::new(0.0, 0.0, 0.0, 0.0);
+                assert_eq!(still.four_velocity_deviation(), <$t>::INFINITY);
+                let nan_time = FourVector::<$t>::new(<$t>::NAN, 0.0, 0.0, 0.0);
+                assert_eq!(nan_time.four_velocity_deviation(), <$t>::INFINITY);
+            }
+
             /// The unit constructors scale by their unit (exact products in both precisions).
             #[test]
             fn unit_constructors_scale_by_their_unit() {
