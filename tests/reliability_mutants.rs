@@ -252,3 +252,18 @@ fn motion_branches_pick_the_accurate_form() {
     assert!(beta_gamma_b <= 1.25, "βγ from β: {beta_gamma_b} eps");
     assert!(gamma_p <= 1.25, "γ from pc: {gamma_p} eps");
 }
+
+/// Bρ → pc in f32 is correctly rounded: x·c with x an f32 (24 bits) and c = 299 792 458 m/s
+/// (29 bits, exact by the SI definition) is exact in f64, so its rounding to f32 is the reference.
+/// The low part of c (10 m/s) decides the last bit here.
+#[test]
+fn f32_momentum_from_rigidity_is_correctly_rounded() {
+    use fourforce::Motion;
+    let mut x = 0.01_f32;
+    for _ in 0..4096 {
+        let s = Motion::try_from_magnetic_rigidity(Species::<f32>::PROTON, x).unwrap();
+        let want = (f64::from(x) * 299_792_458.0) as f32;
+        assert_eq!(s.momentum(), want, "Bρ = {x} T m");
+        x *= 1.0037;
+    }
+}
