@@ -169,6 +169,53 @@ macro_rules! sharper_edges {
                 assert_eq!(nan_time.four_velocity_deviation(), <$t>::INFINITY);
             }
 
+            /// The unit accessors divide by their unit.
+            #[test]
+            fn unit_accessors_divide_by_their_unit() {
+                use fourforce::Motion;
+                let s = Motion::try_from_kinetic_energy(Species::<$t>::PROTON, 2.5e9).unwrap();
+                let close = |x: $t, want: $t| (x / want - 1.0).abs() <= 2.0 * <$t>::EPSILON;
+                assert!(
+                    close(s.kinetic_energy_kev(), 2.5e6),
+                    "{}",
+                    s.kinetic_energy_kev()
+                );
+                assert!(
+                    close(s.kinetic_energy_mev(), 2.5e3),
+                    "{}",
+                    s.kinetic_energy_mev()
+                );
+                assert!(
+                    close(s.kinetic_energy_gev(), 2.5),
+                    "{}",
+                    s.kinetic_energy_gev()
+                );
+                assert!(
+                    close(s.momentum_mev(), s.momentum() * 1.0e-6),
+                    "{}",
+                    s.momentum_mev()
+                );
+                assert!(s.momentum_mev() > 3000.0 && s.momentum_mev() < 3400.0);
+            }
+
+            /// The 90° limits of the hard-edge formulas are inclusive: sin θ = 1 is a kick of
+            /// exactly π/2, and a dipole bending by exactly π/2 is a valid measurement.
+            #[test]
+            fn optics_accept_exactly_ninety_degrees() {
+                use fourforce::{Motion, optics};
+                let pi_2 = core::$t::consts::FRAC_PI_2;
+                let m = Motion::try_from_kinetic_energy(Species::<$t>::PROTON, 1.0e8).unwrap();
+                let brho = m.magnetic_rigidity().unwrap();
+                let kick = optics::kick_angle_hard_edge(&m, brho, 1.0).unwrap();
+                assert!((kick.abs() - pi_2).abs() <= 4.0 * <$t>::EPSILON, "{kick}");
+                assert!(optics::field_for_angle_hard_edge(&m, pi_2, 1.0).is_ok());
+                assert!(optics::energy_from_dipole(Species::PROTON, 1.0, 1.0, pi_2).is_ok());
+                assert_eq!(
+                    optics::energy_from_dipole(Species::PROTON, 1.0, 1.0, 1.6).err(),
+                    Some(Error::AngleOutOfRange)
+                );
+            }
+
             /// The unit constructors scale by their unit (exact products in both precisions).
             #[test]
             fn unit_constructors_scale_by_their_unit() {
@@ -266,4 +313,22 @@ fn f32_momentum_from_rigidity_is_correctly_rounded() {
         assert_eq!(s.momentum(), want, "Bρ = {x} T m");
         x *= 1.0037;
     }
+}
+
+/// β from a flight time over 1 m, f32 proton, 2¹⁶ times from β = 0.005 to 0.995: worst 0.89 eps
+/// (measured). Reference: β = L/(c t) in f64, where c t is exact (24-bit t times the 29-bit c).
+/// Both branches (below and above c/2) and the low part of c in c·t each move it above 1.0.
+#[test]
+fn f32_beta_from_flight_time_within_its_measured_bound() {
+    use fourforce::Motion;
+    let c = 299_792_458.0_f64;
+    let mut worst = 0.0_f64;
+    for k in 0..(1_u32 << 16) {
+        let beta_target = 0.005 + 0.99 * f64::from(k) / f64::from(1_u32 << 16);
+        let t = (1.0 / (beta_target * c)) as f32;
+        let s = Motion::try_from_flight_time(Species::<f32>::PROTON, 1.0, t).unwrap();
+        let beta = 1.0 / (f64::from(t) * c);
+        worst = worst.max((f64::from(s.beta()) / beta - 1.0).abs() / f64::from(f32::EPSILON));
+    }
+    assert!(worst <= 0.95, "β from a flight time: {worst} eps");
 }
