@@ -216,6 +216,71 @@ macro_rules! sharper_edges {
                 );
             }
 
+            /// The beam line's accessors and the window's bookkeeping say what they hold.
+            #[test]
+            fn containers_report_their_contents() {
+                use fourforce::beamline::{BeamLine, Element};
+                use fourforce::check::MovingWindow;
+                let mut line = BeamLine::<$t, 3>::new();
+                assert!(line.is_empty());
+                assert_eq!(line.capacity(), 3);
+                line.try_push(Element::Drift { length_m: 1.0 }).unwrap();
+                assert!(!line.is_empty());
+                let mut w = MovingWindow::<$t, 2>::new();
+                assert!(w.is_empty() && !w.is_full());
+                w.try_push(1.0).unwrap();
+                assert!(!w.is_empty() && !w.is_full());
+                w.try_push(2.0).unwrap();
+                assert!(!w.is_empty() && w.is_full());
+                w.clear();
+                assert!(w.is_empty() && !w.is_full() && w.len() == 0);
+                assert_eq!(w.try_mean(), Err(Error::Empty));
+            }
+
+            /// The energy window: its bounds, its ordering rule, and a reading of exactly 0 eV
+            /// (possible: a particle at rest), with the deviation each verdict carries.
+            #[test]
+            fn energy_window_bounds_and_verdicts() {
+                use fourforce::check::{EnergyWindow, Verdict};
+                let p = Species::<$t>::PROTON;
+                let w = EnergyWindow::try_around(p, 100.0, 0.25).unwrap();
+                assert_eq!((w.low(), w.nominal(), w.high()), (75.0, 100.0, 125.0));
+                assert_eq!(
+                    EnergyWindow::try_new(p, 3.0, 2.0, 4.0),
+                    Err(Error::InvalidRange)
+                );
+                assert_eq!(
+                    EnergyWindow::try_new(p, 1.0, 5.0, 4.0),
+                    Err(Error::InvalidRange)
+                );
+                let from_zero = EnergyWindow::try_new(p, 0.0, 1.0, 2.0).unwrap();
+                assert_eq!(
+                    from_zero.check_kinetic_energy(0.0),
+                    Verdict::Inside {
+                        kinetic_energy_ev: 0.0,
+                        deviation: -1.0
+                    }
+                );
+                assert_eq!(from_zero.check_kinetic_energy(0.0).deviation(), Some(-1.0));
+                assert_eq!(from_zero.check_kinetic_energy(4.0).deviation(), Some(3.0));
+                assert_eq!(from_zero.check_kinetic_energy(-1.0).deviation(), None);
+            }
+
+            /// A gap that brings the particle exactly to rest is allowed; one that would leave
+            /// too little momentum for the slopes it carries is refused.
+            #[test]
+            fn gap_to_rest_and_gap_too_strong_for_the_slopes() {
+                use fourforce::Motion;
+                use fourforce::beamline::{BeamState, Element};
+                let m = Motion::try_from_kinetic_energy(Species::<$t>::PROTON, 1.0e6).unwrap();
+                let stop = Element::AcceleratingGap { voltage_v: -1.0e6 };
+                let rest = stop.try_apply(&BeamState::on_axis(m)).unwrap();
+                assert_eq!(rest.kinetic_energy(), 0.0);
+                let steep = BeamState::try_new(m, 0.0, 1.0, 0.0, 0.0, 0.0).unwrap();
+                let brake = Element::AcceleratingGap { voltage_v: -0.9e6 };
+                assert_eq!(brake.try_apply(&steep), Err(Error::AngleOutOfRange));
+            }
+
             /// The unit constructors scale by their unit (exact products in both precisions).
             #[test]
             fn unit_constructors_scale_by_their_unit() {
@@ -331,4 +396,25 @@ fn f32_beta_from_flight_time_within_its_measured_bound() {
         worst = worst.max((f64::from(s.beta()) / beta - 1.0).abs() / f64::from(f32::EPSILON));
     }
     assert!(worst <= 0.95, "β from a flight time: {worst} eps");
+}
+
+/// The beam state's time and energy gain are compensated sums: after 4096 equal drifts or gaps
+/// in f32 they equal the exactly rounded total (N·τ and N·δ are exact in f64).
+#[test]
+fn f32_beam_state_sums_are_compensated() {
+    use fourforce::Motion;
+    use fourforce::beamline::{BeamState, Element};
+    let m = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 1.0e6).unwrap();
+    let drift = Element::Drift { length_m: 0.1 };
+    let gap = Element::AcceleratingGap { voltage_v: 0.1 };
+    let tau = f64::from(drift.try_apply(&BeamState::on_axis(m)).unwrap().time());
+    let delta = f64::from(0.1_f32);
+    let (mut s, mut g) = (BeamState::on_axis(m), BeamState::on_axis(m));
+    for _ in 0..4096 {
+        s = drift.try_apply(&s).unwrap();
+        g = gap.try_apply(&g).unwrap();
+    }
+    assert_eq!(s.time(), (4096.0 * tau) as f32);
+    assert_eq!(g.energy_gain(), (4096.0 * delta) as f32);
+    assert_eq!(g.kinetic_energy(), (1.0e6 + 4096.0 * delta) as f32);
 }
