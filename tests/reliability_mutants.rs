@@ -418,3 +418,35 @@ fn f32_beam_state_sums_are_compensated() {
     assert_eq!(g.energy_gain(), (4096.0 * delta) as f32);
     assert_eq!(g.kinetic_energy(), (1.0e6 + 4096.0 * delta) as f32);
 }
+
+/// Every N readings the moving window recomputes its sums from the values it holds, so after
+/// each full cycle its statistics are exactly those of a fresh window fed the same N values,
+/// however long it has run.
+#[test]
+fn moving_window_resynchronises_every_cycle() {
+    use fourforce::check::MovingWindow;
+    const N: usize = 5;
+    let reading = |i: u32| 1.0e4_f32 + ((i * 7919) % 1000) as f32 * 0.37;
+    let mut long = MovingWindow::<f32, N>::new();
+    for i in 0..(7 * N as u32) {
+        long.try_push(reading(i)).unwrap();
+        if (i as usize + 1) % N == 0 {
+            let mut fresh = MovingWindow::<f32, N>::new();
+            for j in (i + 1 - N as u32)..=i {
+                fresh.try_push(reading(j)).unwrap();
+            }
+            assert_eq!(
+                long.try_mean(),
+                fresh.try_mean(),
+                "after {} readings",
+                i + 1
+            );
+            assert_eq!(
+                long.try_spread(),
+                fresh.try_spread(),
+                "after {} readings",
+                i + 1
+            );
+        }
+    }
+}
