@@ -450,3 +450,144 @@ fn moving_window_resynchronises_every_cycle() {
         }
     }
 }
+
+/// Pushers and their particle: each input refused on its own, the velocity, the compensated
+/// time, the overflow of a half step, and the factors' own edges.
+macro_rules! sharper_push {
+    ($t:ident, $name:ident) => {
+        mod $name {
+            use super::*;
+            use fourforce::Error;
+            use fourforce::push::{Boris, LocalField, Particle, Pusher, StepFactors};
+
+            #[test]
+            fn particle_refuses_each_non_finite_part() {
+                let (z, nan) = (ThreeVector::<$t>::ZERO, <$t>::NAN);
+                let bad = ThreeVector::new(nan, 0.0, 0.0);
+                assert_eq!(Particle::try_new(bad, z, 0.0), Err(Error::NonFinite));
+                assert_eq!(Particle::try_new(z, bad, 0.0), Err(Error::NonFinite));
+                assert_eq!(Particle::try_new(z, z, nan), Err(Error::NonFinite));
+            }
+
+            #[test]
+            fn velocity_is_momentum_over_gamma() {
+                let u = ThreeVector::new(0.75, 0.0, 0.0);
+                let p = Particle::<$t>::try_new(ThreeVector::ZERO, u, 0.0).unwrap();
+                assert_eq!(p.gamma(), 1.25);
+                assert!((p.velocity().x - 0.6).abs() <= <$t>::EPSILON);
+            }
+
+            /// |u| = √MAX/2 fits (|u|² = MAX/4), a half step that triples it does not.
+            #[test]
+            fn half_step_whose_gamma_overflows_is_refused() {
+                let big = <$t>::MAX.sqrt() * 0.5;
+                let pusher = Boris::try_new(Species::<$t>::PROTON, 1.0).unwrap();
+                let u = ThreeVector::new(big, 0.0, 0.0);
+                let p = Particle::try_new(ThreeVector::ZERO, u, 0.0).unwrap();
+                // A half step adds ε = kick·E = 2 big.
+                let e = 2.0 * big / pusher.factors().kick();
+                let field = LocalField::new(ThreeVector::new(e, 0.0, 0.0), ThreeVector::ZERO);
+                assert_eq!(
+                    pusher.try_synchronised_momentum(&p, &field),
+                    Err(Error::Overflow)
+                );
+            }
+
+            #[test]
+            fn step_factors_edges() {
+                // The shortest step: c Δt > Δt is not 0; the kick underflows to 0 (a step that
+                // changes nothing, allowed).
+                let tiny = <$t>::MIN_POSITIVE * <$t>::EPSILON;
+                let f = StepFactors::try_new(Species::<$t>::PROTON, tiny).unwrap();
+                assert!(f.c_dt() > 0.0 && f.kick() == 0.0 && f.rotation() == 0.0);
+                // Δt = 1 s, m = 1 eV and Q = 4 MAX/c²: kick = Q c Δt/2m = 2 MAX/c fits,
+                // rotation = kick·c = 2 MAX does not.
+                let c: $t = 299_792_458.0;
+                let q = 4.0 * (<$t>::MAX / c / c);
+                let s = Species::try_new(1.0, q).unwrap();
+                assert_eq!(StepFactors::try_new(s, 1.0), Err(Error::Overflow));
+                assert!(StepFactors::try_new(s, 1.0e-20).is_ok());
+            }
+
+            #[test]
+            fn steering_limits_of_zero_are_allowed_and_negative_ones_refused() {
+                use fourforce::steer::SteeringSetup;
+                assert!(SteeringSetup::<$t>::try_new(1.0, 0.5, 0.0, 0.0).is_ok());
+                assert_eq!(
+                    SteeringSetup::<$t>::try_new(1.0, 0.5, 1.0, -1.0).err(),
+                    Some(Error::NegativeMagnitude)
+                );
+                assert_eq!(
+                    SteeringSetup::<$t>::try_new(1.0, 0.5, -1.0, 1.0).err(),
+                    Some(Error::NegativeMagnitude)
+                );
+            }
+
+            /// A trend exactly at the threshold is steady; a threshold of 0 is allowed.
+            #[test]
+            fn trend_thresholds_are_inclusive() {
+                use fourforce::check::{MovingWindow, Trend};
+                let mut up = MovingWindow::<$t, 4>::new();
+                let mut down = MovingWindow::<$t, 4>::new();
+                for x in [1.0, 2.0, 3.0, 4.0] {
+                    up.try_push(x).unwrap();
+                    down.try_push(-x).unwrap();
+                }
+                let d = up.try_drift().unwrap();
+                assert!(d > 0.0);
+                assert_eq!(down.try_drift(), Ok(-d));
+                assert_eq!(up.try_trend(d), Ok(Trend::Steady));
+                assert_eq!(up.try_trend(d * 0.5), Ok(Trend::Rising));
+                assert_eq!(down.try_trend(d), Ok(Trend::Steady));
+                assert_eq!(down.try_trend(d * 0.5), Ok(Trend::Falling));
+                assert_eq!(up.try_trend(0.0), Ok(Trend::Rising));
+                let mut flat = MovingWindow::<$t, 4>::new();
+                for _ in 0..4 {
+                    flat.try_push(7.0).unwrap();
+                }
+                assert_eq!(flat.try_trend(0.0), Ok(Trend::Steady));
+            }
+        }
+    };
+}
+
+sharper_push!(f32, push_f32);
+sharper_push!(f64, push_f64);
+
+/// The slope subtracts the mean before it multiplies: readings 1e7 + (0, 2, 4, 6) in f32 give a
+/// slope of exactly 2 (every intermediate exact), where adding the mean would round at 2e7.
+#[test]
+fn f32_slope_of_offset_readings_is_exact() {
+    use fourforce::check::MovingWindow;
+    let mut w = MovingWindow::<f32, 4>::new();
+    for x in [0.0, 2.0, 4.0, 6.0] {
+        w.try_push(1.0e7 + x).unwrap();
+    }
+    assert_eq!(w.try_slope(), Ok(2.0));
+}
+
+/// c Δt in f32 over 20 000 steps Δt: worst 0.77 eps against the exact product (Δt·c is exact in
+/// f64); the low part of c (10 m/s) is what keeps it below 1.
+#[test]
+fn f32_light_path_of_a_step_within_its_measured_bound() {
+    use fourforce::push::StepFactors;
+    let mut worst = 0.0_f64;
+    for k in 1..20_000_u32 {
+        let dt = (f64::from(k) * 1.37e-12) as f32;
+        let f = StepFactors::try_new(Species::<f32>::PROTON, dt).unwrap();
+        let exact = f64::from(dt) * 299_792_458.0;
+        worst = worst.max((f64::from(f.c_dt()) / exact - 1.0).abs() / f64::from(f32::EPSILON));
+    }
+    assert!(worst <= 0.8, "c Δt: {worst} eps");
+}
+
+/// A particle's time is a compensated sum: 3000 steps of 1 ns in f32 end at the rounded exact
+/// total (3000 times the f32 value of 1e-9 is exact in f64).
+#[test]
+fn f32_particle_time_is_a_compensated_sum() {
+    use fourforce::push::{Boris, LocalField, Particle, Pusher};
+    let pusher = Boris::try_new(Species::<f32>::ELECTRON, 1.0e-9).unwrap();
+    let mut p = Particle::at_rest(ThreeVector::ZERO);
+    pusher.try_run(&mut p, &LocalField::ZERO, 3000).unwrap();
+    assert_eq!(p.time(), (3000.0 * f64::from(1.0e-9_f32)) as f32);
+}

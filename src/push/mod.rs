@@ -80,6 +80,7 @@ pub use higuera_cary::HigueraCary;
 pub use source::{FieldSource, LocalField, SumOfFields, UniformField};
 pub use vay::Vay;
 
+use crate::compensated::two_sum;
 use crate::{Error, Real, Species, ThreeVector};
 
 /// The state of one particle: position (m), normalised momentum `u = γβ`, its `γ`, and time (s).
@@ -260,18 +261,16 @@ impl<T: Real> Particle<T> {
     #[must_use]
     #[inline]
     pub fn time(&self) -> T {
-        self.time + self.time_carry
+        // The carry, the two-sum's error, is below half an ulp of the time: the time itself is
+        // the rounded total, and the carry only serves the next addition.
+        self.time
     }
 
     /// Adds `dt` to the time with the rounding error carried into the next addition (Knuth's
     /// two-sum of the time and `dt` plus the previous carry), so the carry never grows.
     #[inline]
     fn advance_time(&mut self, dt: T) {
-        let increment = dt + self.time_carry;
-        let sum = self.time + increment;
-        let increment_part = sum - self.time;
-        self.time_carry = (self.time - (sum - increment_part)) + (increment - increment_part);
-        self.time = sum;
+        (self.time, self.time_carry) = two_sum(self.time, dt + self.time_carry);
     }
 }
 
@@ -329,7 +328,9 @@ impl<T: Real> StepFactors<T> {
         // Q/mc² in 1/V, the factor of the scaled equation of motion
         let kick = species.charge_over_rest_energy() * c_dt * T::HALF;
         let rotation = kick * T::SPEED_OF_LIGHT;
-        if !(c_dt.is_finite() && kick.is_finite() && rotation.is_finite()) || c_dt == T::ZERO {
+        // (rotation = kick · c is finite only if kick is, and kick only if c Δt is; c Δt > Δt
+        // cannot underflow.)
+        if !rotation.is_finite() {
             return Err(Error::Overflow);
         }
         Ok(Self {
@@ -400,14 +401,14 @@ impl<T: Real> StepFactors<T> {
         self.rotation
     }
 
-    /// The factors of a step `k Δt`, `k` a power of two (the scaling is then exact).
+    /// The momentum factors of a step `k Δt`, `k` a power of two (the scaling is then exact),
+    /// for a momentum update alone: `Δt` and `c Δt`, which only move the position, are kept.
     #[inline]
     fn scaled(&self, k: T) -> Self {
         Self {
-            dt: self.dt * k,
-            c_dt: self.c_dt * k,
             kick: self.kick * k,
             rotation: self.rotation * k,
+            ..*self
         }
     }
 }
