@@ -523,6 +523,18 @@ macro_rules! sharper_push {
                 );
             }
 
+            /// A small correction within the rate limit is not reported as rate-limited.
+            #[test]
+            fn small_steering_change_is_not_rate_limited() {
+                use fourforce::Motion;
+                use fourforce::steer::SteeringSetup;
+                let setup = SteeringSetup::<$t>::try_new(1.0, 0.5, 1.0, 1.0).unwrap();
+                let p = Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6).unwrap();
+                let cmd = setup.try_next_setting(&p, 1.0e-3, 0.0, 0.0).unwrap();
+                assert!(!cmd.rate_limited() && !cmd.saturated());
+                assert!(cmd.setting_tm() != 0.0);
+            }
+
             /// A trend exactly at the threshold is steady; a threshold of 0 is allowed.
             #[test]
             fn trend_thresholds_are_inclusive() {
