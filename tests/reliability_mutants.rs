@@ -603,3 +603,44 @@ fn f32_particle_time_is_a_compensated_sum() {
     pusher.try_run(&mut p, &LocalField::ZERO, 3000).unwrap();
     assert_eq!(p.time(), (3000.0 * f64::from(1.0e-9_f32)) as f32);
 }
+
+/// In a pure B field each scheme turns u⊥ by exactly 2·atan(|τ|/γ̃) per step, the rotation of the
+/// published update equations with t = τ/γ̃: γ̃ = γ for Boris and Vay, and for Higuera-Cary the γ of
+/// the mean momentum, γ̃² = 1 + u∥² + u⊥² cos²(θ/2) (solved here by fixed-point iteration). A
+/// momentum with a component along B (u = (1, 0, 1), γ = √3) checks that the implicit γ of Vay and
+/// Higuera-Cary counts (u·τ)².
+#[test]
+fn pure_b_step_turns_by_the_discrete_angle_with_a_parallel_component() {
+    use fourforce::push::{Boris, HigueraCary, LocalField, Pusher, StepFactors, Vay};
+    let f = StepFactors::try_new(Species::<f64>::PROTON, 1.0e-9).unwrap();
+    let b = 0.5 / f.rotation(); // τ = 0.5
+    let field = LocalField::new(ThreeVector::ZERO, ThreeVector::new(0.0, 0.0, b));
+    let u = ThreeVector::new(1.0, 0.0, 1.0);
+    let gamma = 3.0_f64.sqrt();
+    let turned = |(v, g): (ThreeVector<f64>, f64)| {
+        assert!((g - gamma).abs() < 1e-15 && (v.z - 1.0).abs() < 1e-15);
+        v.y.atan2(v.x).abs()
+    };
+    let boris_vay = 2.0 * (0.5 / gamma).atan();
+    let mut higuera_cary = boris_vay;
+    for _ in 0..200 {
+        let mean_gamma = (2.0 + (higuera_cary / 2.0).cos().powi(2)).sqrt();
+        higuera_cary = 2.0 * (0.5 / mean_gamma).atan();
+    }
+    for (got, want) in [
+        (
+            turned(Boris::from_factors(f).push_momentum(u, gamma, &field)),
+            boris_vay,
+        ),
+        (
+            turned(Vay::from_factors(f).push_momentum(u, gamma, &field)),
+            boris_vay,
+        ),
+        (
+            turned(HigueraCary::from_factors(f).push_momentum(u, gamma, &field)),
+            higuera_cary,
+        ),
+    ] {
+        assert!((got - want).abs() < 1e-14, "turned {got}, want {want}");
+    }
+}
