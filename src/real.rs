@@ -197,7 +197,7 @@ pub trait Real:
     /// The raw bits, widened to `u64`.
     fn to_bits_u64(self) -> u64;
     /// The binary exponent `e` with `2^e ≤ |self| < 2^(e+1)` (`libm::ilogbf`/`ilogb`; subnormals
-    /// included; `i32::MIN` for 0, `i32::MAX` for NaN and the infinities).
+    /// included; `i32::MIN` for 0 and NaN, `i32::MAX` for the infinities).
     fn ilogb(self) -> i32;
     /// `self · 2^n`, exact unless the result overflows or falls into the subnormals
     /// (`libm::scalbnf`/`scalbn`).

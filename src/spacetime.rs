@@ -393,6 +393,7 @@ impl<T: Real> FourVector<T> {
         if !self.is_finite() || self.time == T::ZERO {
             return T::INFINITY;
         }
+        // (u⁰ is finite and not 0 here, so e lies in the exponent range and −e cannot overflow.)
         // Scaled by 2^-e (exact) so that u⁰ lies in [1, 2): the squares cannot overflow however
         // large u⁰ is, and the figure is the unscaled one wherever no scaled product underflows.
         let e = self.time.ilogb();
