@@ -397,14 +397,13 @@ impl<T: Real> FourVector<T> {
         // Scaled by 2^-e (exact) so that u⁰ lies in [1, 2): the squares cannot overflow however
         // large u⁰ is, and the figure is the unscaled one wherever no scaled product underflows.
         let e = self.time.ilogb();
-        let scaled = |x: T| x.scalbn(-e);
-        let time = scaled(self.time);
+        let [time, x, y, z] = self.to_array().map(|c| c.scalbn(-e));
+        let one = T::ONE.scalbn(-e);
         let mut acc = Accumulator::new();
         acc.add_product(time, time);
-        acc.sub_product(scaled(T::ONE), scaled(T::ONE));
-        acc.sub_product(scaled(self.space.x), scaled(self.space.x));
-        acc.sub_product(scaled(self.space.y), scaled(self.space.y));
-        acc.sub_product(scaled(self.space.z), scaled(self.space.z));
+        for c in [one, x, y, z] {
+            acc.sub_product(c, c);
+        }
         let d = acc.value() / time / time;
         if d.is_finite() { d } else { T::INFINITY }
     }
