@@ -22,7 +22,7 @@
 //! for `f32`, `2⁻⁵²` for `f64`), for every species and every kinetic energy from 1 eV to
 //! 100 TeV, when the input is exact in the precision. The worst errors given in each item's
 //! documentation are measured two ways, and the larger is stated: against 50-digit mpmath
-//! references (`tests/reference/`, CODATA 2018: the ten named species and three custom ions,
+//! references (`checks/tests/reference/`, CODATA 2018: the ten named species and three custom ions,
 //! 16 kinetic energies per decade, and states built from every other quantity), and, for `f32`,
 //! against the `f64` path on every 1024th `f32` input of each constructor for an electron, a
 //! proton and an alpha (`ci/exhaustive`). Worst over everything: 3.51 eps in `f32`, 2.32 eps in

@@ -152,7 +152,7 @@ pub fn all_finite<T: Real>(xs: &[T]) -> bool {
 pub mod known {
     /// `try_from_kinetic_energy_{kev,mev,gev}` refuse a finite input whose conversion to eV
     /// overflows with `NonFinite` instead of `Overflow`.
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
     pub const UNIT_CONVERSION_NON_FINITE: bool = false;
     /// A species of tiny rest energy (`Species::try_new` accepts any positive one) gives
     /// accepted `Motion`s with NaN or inconsistent fields: below about 1e-19 eV in f32 (1e-154
@@ -166,7 +166,7 @@ pub mod known {
     /// (or `pc/|Q|`, formed before the division by `c`) does not fit the precision (a species of
     /// tiny charge, such as 1e-300 e in f64), instead
     /// of `Err(Error::Overflow)`.
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
     pub const RIGIDITY_OK_INFINITE: bool = false;
     /// An accepted state whose `1 − β` underflows (`γ` beyond about 2^74 in f32, 2^537 in f64,
     /// reachable only through a species of tiny rest energy) holds `1 − β = 0` and `β = 1`
@@ -176,24 +176,24 @@ pub mod known {
     pub const ONE_MINUS_BETA_UNDERFLOW: bool = false;
     /// `optics::energy_gain` and `optics::integrated_field_for_angle` return `Ok(±inf)` when
     /// their product overflows, instead of `Err(Error::Overflow)`.
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
     pub const UNCHECKED_PRODUCTS: bool = false;
     /// `FourVector::four_velocity_deviation` is `+inf` for a four-velocity with `u⁰` above
     /// about 1.8e19 (f32) or 1.3e154 (f64), though `try_four_velocity_from_momentum` accepts
     /// such four-velocities: the exact squares overflow.
     /// Fixed on 2026-12-02 (scaled by a power of two; regression test in
-    /// `tests/reliability_regressions.rs`).
+    /// `checks/tests/suite/reliability_regressions.rs`).
     pub const DEVIATION_OVERFLOW: bool = false;
     /// `FourVector::try_four_velocity_from_momentum` returns `Ok` with `u⁰ = +inf` when every
     /// component of `pc/m` is finite but `|pc/m|` is not (for example three components of
     /// -2.56e38 in f32), instead of `Err(Error::Overflow)`.
     /// Fixed on 2026-12-02 (u⁰ checked, `Overflow`; regression test in
-    /// `tests/reliability_regressions.rs`).
+    /// `checks/tests/suite/reliability_regressions.rs`).
     pub const FOUR_VELOCITY_TIME_INF: bool = false;
     /// `FieldTensor::try_from_fields` (and the two `try_*_invariant_of`) refuse a finite `B`
     /// whose `cB` overflows (|B| above about 1.1e30 T in f32) with `NonFinite` instead of the
     /// documented `Overflow`.
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
     pub const FIELD_CB_NON_FINITE: bool = false;
     /// `Boost::rapidity` was `+inf` once `|u|²` overflowed (|u| above about 1.8e19 in f32);
     /// fixed on 2026-12-02 by the foundation engineer's `Boost::gamma_limit` (γ ≤ 1e12).
@@ -201,15 +201,15 @@ pub mod known {
     /// `EnergyWindow` verdicts carry a deviation `(T − T_nom)/T_nom` of `±inf` when the quotient
     /// overflows (a subnormal nominal energy).
     /// Fixed on 2026-12-02 (saturated at `MAX`; regression test in
-    /// `tests/reliability_regressions.rs`).
+    /// `checks/tests/suite/reliability_regressions.rs`).
     pub const VERDICT_DEVIATION_OVERFLOW: bool = false;
     /// `EnergyWindow::try_around` refuses a finite nominal energy whose `nominal (1 + tol)`
     /// overflows with `NonFinite` instead of `Overflow` or `InvalidRange`.
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
     pub const WINDOW_AROUND_NON_FINITE: bool = false;
     /// `MovingWindow` statistics of finite readings near `MAX` are `inf` or NaN (sums of the
     /// readings or of their squared deviations overflow).
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `tests/reliability_regressions.rs`).
+    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
     pub const WINDOW_STATISTICS_OVERFLOW: bool = false;
 
     /// True when `rest` is below 1 eV (far below any charged particle's, but accepted by

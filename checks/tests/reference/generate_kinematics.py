@@ -4,7 +4,7 @@
 Regenerate (from the repository root):
 
     pip install mpmath            # the committed files were written with mpmath 1.3.0
-    python3 tests/reference/generate_kinematics.py
+    python3 checks/tests/reference/generate_kinematics.py
 
 It writes, next to this script:
 

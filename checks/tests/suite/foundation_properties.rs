@@ -9,8 +9,7 @@
 // Reference values are typed with all their digits; tests compare floats exactly on purpose.
 #![allow(clippy::excessive_precision, clippy::float_cmp)]
 
-mod foundation_common;
-use foundation_common::*;
+use super::foundation_common::*;
 
 use fourforce::{Boost, FieldTensor, FourVector, Real};
 use proptest::prelude::*;

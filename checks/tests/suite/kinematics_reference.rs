@@ -9,12 +9,11 @@
 //! m/T (DESIGN.md §Precision, published-checks §5 "inherent conditioning"); that term is added
 //! to its bound and printed.
 //!
-//! `cargo test --test kinematics_reference -- --nocapture` prints the worst case per quantity,
-//! ours beside the naive textbook formulas (tests/kinematics_support/naive.rs).
+//! `cargo test -p fourforce-checks --test suite -- kinematics_reference:: --nocapture` prints the worst case per quantity,
+//! ours beside the naive textbook formulas (kinematics_support/naive.rs).
 #![allow(clippy::unwrap_used, clippy::float_cmp)]
 
-#[path = "kinematics_support/mod.rs"]
-mod support;
+use super::kinematics_support as support;
 
 use fourforce::{Motion, Real, Species};
 use support::{Exact, QUANTITIES, naive, parse, read, species};

@@ -2,7 +2,7 @@
 //! naive baseline written here (a non-relativistic explicit Euler step), ns per transport through
 //! a 16-element beam line, ns per steering step.
 //!
-//! Run bounded: `nice cargo bench --bench motion -- --warm-up-time 1 --measurement-time 2`.
+//! Run bounded: `nice cargo bench -p fourforce-checks --bench motion -- --warm-up-time 1 --measurement-time 2`.
 
 use criterion::{BenchmarkId, Criterion, black_box, criterion_group, criterion_main};
 use fourforce::beamline::{BeamLine, BeamState, Element, KickDirection};

@@ -9,7 +9,7 @@
 //! contenders: passing a four-vector by value through `black_box` forces a store and a reload
 //! that costs more than the arithmetic.
 //!
-//! Run: `nice cargo bench --bench foundation -- --warm-up-time 1 --measurement-time 2`.
+//! Run: `nice cargo bench -p fourforce-checks --bench foundation -- --warm-up-time 1 --measurement-time 2`.
 
 // The naive baseline is the plain index loop on purpose.
 #![allow(clippy::needless_range_loop)]

@@ -97,7 +97,7 @@ fn rust_files(dir: &std::path::Path, out: &mut Vec<std::path::PathBuf>) {
 fn every_public_type_is_listed() {
     let mut files = Vec::new();
     rust_files(
-        &std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("src"),
+        &std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../src"),
         &mut files,
     );
     let mut missing = Vec::new();
@@ -117,7 +117,7 @@ fn every_public_type_is_listed() {
     );
     assert!(
         missing.is_empty(),
-        "public types not listed in tests/firmware_defmt.rs (add them to `public_types!` with \
+        "public types not listed in checks/tests/suite/firmware_defmt.rs (add them to `public_types!` with \
          a defmt::Format derive): {missing:?}"
     );
 }

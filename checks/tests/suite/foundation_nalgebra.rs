@@ -11,8 +11,7 @@
 // Reference values are typed with all their digits; tests compare floats exactly on purpose.
 #![allow(clippy::excessive_precision, clippy::float_cmp)]
 
-mod foundation_common;
-use foundation_common::*;
+use super::foundation_common::*;
 
 use fourforce::{Boost, FieldTensor, FourVector, LorentzTransform, Real, ThreeVector};
 use nalgebra::{Matrix4, Vector4};

@@ -7,13 +7,12 @@
 //!   here γ_V and 1/(γ_V + 1) are computed in f32 from the frame's four-velocity, and the bar is
 //!   2 eps32 (the same for cB').
 //!
-//! Run with `cargo test --test foundation_precision -- --nocapture` to print the worst measured
+//! Run with `cargo test -p fourforce-checks --test suite -- foundation_precision:: --nocapture` to print the worst measured
 //! deviations (README and DEVELOPERS.md quote them).
 // Reference values are typed with all their digits; tests compare floats exactly on purpose.
 #![allow(clippy::excessive_precision, clippy::float_cmp)]
 
-mod foundation_common;
-use foundation_common::*;
+use super::foundation_common::*;
 
 use fourforce::{Boost, FieldTensor, FourVector, Species, ThreeVector};
 

@@ -1,7 +1,7 @@
 //! The steering step in closed loop against the beam line it models, its limits and its errors.
 //!
 //! The closed loop uses this crate's beam line (thin corrector + drift, validated against the
-//! published rigidities in tests/motion_beamline.rs) as the machine. Convergence as (1 - g)^k for
+//! published rigidities in motion_beamline.rs) as the machine. Convergence as (1 - g)^k for
 //! a correct model is the textbook property of a proportional loop on a linear plant (common
 //! practice).
 #![allow(clippy::float_cmp)]

@@ -8,7 +8,7 @@
 //! (2017).
 //!
 //! Every check runs for f32 and f64 and for the three schemes. Measured figures are printed
-//! (`cargo test --test motion_push -- --nocapture`).
+//! (`cargo test -p fourforce-checks --test suite -- motion_push:: --nocapture`).
 #![allow(clippy::float_cmp)]
 // Reference values are typed with all their published digits.
 #![allow(clippy::excessive_precision)]

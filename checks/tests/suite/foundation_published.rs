@@ -12,8 +12,7 @@
 // Reference values are typed with all their digits; tests compare floats exactly on purpose.
 #![allow(clippy::excessive_precision, clippy::float_cmp)]
 
-mod foundation_common;
-use foundation_common::*;
+use super::foundation_common::*;
 
 use fourforce::{Boost, Error, FieldTensor, FourVector, Real, Species, ThreeVector};
 
