@@ -1,11 +1,15 @@
-//! Door: the table tool's line parser (`examples/table/parse.rs`, `parse_line`), on any text,
+//! Door: the line parser of `fourforce table` (`cli/src/table/line.rs`, `parse_line`, with the
+//! species names of `cli/src/species.rs`), on any text,
 //! followed by what the tool computes from an accepted line (the state of motion and every
 //! value of its output row, printed with the round-trip digits).
 #![no_main]
 
-#[path = "../../examples/table/parse.rs"]
+#[path = "../../cli/src/table/line.rs"]
 #[allow(dead_code)]
-mod parse;
+mod line;
+#[path = "../../cli/src/species.rs"]
+#[allow(dead_code)]
+mod species;
 
 use std::fmt::LowerExp;
 use std::str::FromStr;
@@ -13,20 +17,8 @@ use std::str::FromStr;
 use fourforce::{Motion, Real, optics};
 use fuzzkit::known;
 use libfuzzer_sys::fuzz_target;
-use parse::{LineError, parse_line};
-
-const NAMES: [&str; 10] = [
-    "electron",
-    "positron",
-    "proton",
-    "antiproton",
-    "muon",
-    "antimuon",
-    "deuteron",
-    "triton",
-    "helion",
-    "alpha",
-];
+use line::{LineError, parse_line};
+use species::{NAMES, SpeciesError};
 
 fn run<T: Real + FromStr + LowerExp>(text: &str) {
     match parse_line::<T>(text) {
@@ -122,7 +114,7 @@ fn run<T: Real + FromStr + LowerExp>(text: &str) {
             let _ = e.to_string();
             match &e {
                 LineError::FieldCount(n) => assert_ne!(*n, 2),
-                LineError::UnknownSpecies(s) => assert!(!NAMES.contains(&s.as_str())),
+                LineError::Species(SpeciesError::Unknown(s)) => assert!(!NAMES.contains(&s.as_str())),
                 _ => {}
             }
         }
