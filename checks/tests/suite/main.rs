@@ -8,6 +8,7 @@ mod firmware_defmt;
 mod firmware_fast;
 mod foundation_common;
 mod foundation_exact;
+mod foundation_gamma;
 mod foundation_nalgebra;
 mod foundation_precision;
 mod foundation_properties;
