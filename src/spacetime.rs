@@ -636,7 +636,7 @@ pub(crate) fn gamma_of_beta<T: Real>(beta: ThreeVector<T>) -> Result<T, Error> {
     // Each |βᵢ| < 2 keeps the squares (and Dekker's splitting) far from overflow; a larger one is
     // faster than light anyway.
     let two = T::TWO;
-    if !(beta.x.abs() < two && beta.y.abs() < two && beta.z.abs() < two) {
+    if beta.x.abs() >= two || beta.y.abs() >= two || beta.z.abs() >= two {
         return Err(Error::SpeedNotBelowLight);
     }
     let mut acc = Accumulator::new();
@@ -645,10 +645,11 @@ pub(crate) fn gamma_of_beta<T: Real>(beta: ThreeVector<T>) -> Result<T, Error> {
     acc.sub_product(beta.y, beta.y);
     acc.sub_product(beta.z, beta.z);
     let d = acc.value();
-    if !(d > T::ZERO) {
-        return Err(Error::SpeedNotBelowLight);
+    if d > T::ZERO {
+        Ok(T::ONE / d.sqrt())
+    } else {
+        Err(Error::SpeedNotBelowLight)
     }
-    Ok(T::ONE / d.sqrt())
 }
 
 /// `γ = c/√(c² − |v|²)` of a velocity in m/s, with c in two exact parts and `c² − |v|²` summed
@@ -663,7 +664,7 @@ pub(crate) fn gamma_of_velocity<T: Real>(v: ThreeVector<T>) -> Result<T, Error> 
     }
     // |vᵢ| < 2c keeps the squares (and Dekker's splitting) far from overflow.
     let limit = T::C_HI * T::TWO;
-    if !(v.x.abs() < limit && v.y.abs() < limit && v.z.abs() < limit) {
+    if v.x.abs() >= limit || v.y.abs() >= limit || v.z.abs() >= limit {
         return Err(Error::SpeedNotBelowLight);
     }
     // c² = C_HI² + 2 C_HI C_LO + C_LO² (C_LO = 10 m/s in f32, 0 in f64; C_LO² = 100 m²/s² is
@@ -678,7 +679,8 @@ pub(crate) fn gamma_of_velocity<T: Real>(v: ThreeVector<T>) -> Result<T, Error> 
     acc.sub_product(v.y, v.y);
     acc.sub_product(v.z, v.z);
     let d = acc.value();
-    if !(d > T::ZERO) {
+    if d <= T::ZERO {
+        // (d is finite: every component was below 2c.)
         return Err(Error::SpeedNotBelowLight);
     }
     let s = d.sqrt();
