@@ -83,6 +83,7 @@ pub use spacetime::{Covector, FourVector, Metric};
 pub mod kinematics;
 pub use kinematics::Motion;
 pub mod optics;
+pub mod transfer;
 
 // --- motion: pushers, beam line, checks, steering ---
 pub mod beamline;

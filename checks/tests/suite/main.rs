@@ -24,3 +24,4 @@ mod motion_push;
 mod motion_steer;
 mod reliability_mutants;
 mod reliability_regressions;
+mod transfer;

@@ -1,0 +1,755 @@
+//! First-order transfer maps of focusing elements, and the beam envelopes they carry.
+//!
+//! A [`TransferMap`] is the 6×6 matrix `R` of a hard-edge element (or a whole line) in the
+//! coordinates `(x, x', y, y', Δt, δ)`: offsets in m, slopes in rad, `Δt` the arrival time
+//! relative to the reference particle in s (positive = later), `δ = Δp/p₀`. It is built at a
+//! reference state of motion ([`Motion`]) and composed with [`then`](TransferMap::then).
+//!
+//! # Elements
+//! | constructor | parameters | focusing |
+//! | --- | --- | --- |
+//! | [`try_drift`](TransferMap::try_drift) | `L` | none |
+//! | [`try_quadrupole`](TransferMap::try_quadrupole) | `L`, gradient `G` (T/m) | `k = sign(Q) G/Bρ`, `k > 0` focuses in `x` |
+//! | [`try_thin_quadrupole`](TransferMap::try_thin_quadrupole) | `∫G dl` (T) | `1/f = sign(Q) ∫G dl/Bρ` |
+//! | [`try_electrostatic_quadrupole`](TransferMap::try_electrostatic_quadrupole) | `L`, electrode voltage `V`, aperture radius `a` | `k = sign(Q) 2V/(a² Eρ)` |
+//! | [`try_sector_dipole`](TransferMap::try_sector_dipole) | arc `L`, angle `θ`, pole faces `e₁`, `e₂` | `ρ = L/θ`; edges `x' += tan e/ρ · x`, `y' −= tan e/ρ · y` |
+//! | [`try_solenoid`](TransferMap::try_solenoid) | `L`, axial field `B` | `K = sign(Q) B/(2Bρ)`, couples `x` and `y` |
+//! | [`try_gap`](TransferMap::try_gap) | voltage `V` | `ΔT = Q V`; `x'`, `y'` scale by `p₀/p₁`, `δ` by `v₀p₀/(v₁p₁)` |
+//!
+//! In a dipole `x` points away from the centre of curvature for `θ > 0` (so `R16 = ρ(1 − cos θ)`).
+//! The time row is `Δt = Δl/v − (L/v) δ/γ²`, `Δl` the first-order path-length difference, non-zero
+//! only in dipoles: `Δl = x₀ sin θ + x₀' ρ(1 − cos θ) + δ ρ(θ − sin θ)`. Thin elements take no time.
+//!
+//! # Precision
+//! Every entry is built from forms that keep full relative accuracy for small arguments:
+//! `sin φ/√k` as `L sin φ/φ`, `1 − cos θ = 2 sin²(θ/2)`, `θ − sin θ` by its series below
+//! `|θ| = 2`, the edge-corrected dipole entries as `cos(θ − e)/cos e` and
+//! `sin(e₁ + e₂ − θ)/(cos e₁ cos e₂)` (a rectangular magnet gives exactly `R11 = R22 = 1`,
+//! `R21 = 0`). As `k → 0` or `θ → 0` every map goes smoothly to the drift. The promise: each
+//! entry of an element's or a line's map within `32 eps · S` of the exact map, `S` the entry's
+//! rounding scale (the same entry of the product of the elements' absolute values) plus its
+//! sensitivity to a relative rounding of every input (lengths, fields, angles, kinetic energy,
+//! rest energy).
+//!
+//! # Envelopes
+//! An [`Envelope`] is a beam at one place: the second moments `Σ` of its betatron part in
+//! `(x, x', y, y')`, its dispersion `(D_x, D_x', D_y, D_y')` and its rms momentum spread `σ_δ`.
+//! Through a map, `Σ → A Σ Aᵀ` and `D → (A D + R₆)/R66` (`A` the 4×4 transverse block). The size
+//! per plane is `√(β ε + (D σ_δ)²)`; the [`Twiss`] parameters `(β, α, γ)` are read from the
+//! projected moments, so they equal the Courant–Snyder functions in a line without coupling and
+//! stay meaningful (projected) through solenoids. [`TransferMap::try_periodic`] gives the periodic
+//! solution of a cell.
+//!
+//! # For firmware authors
+//! A map is 26 numbers (the structure of the 6×6 is fixed: nothing depends on `Δt`, and `δ` only
+//! scales), so composing costs a few dozen multiplications, fewer while no solenoid has coupled the
+//! planes. An element costs a division and, for a focusing element, a square root and one `sin`
+//! and `cos` (`sinh`, `cosh` in the defocusing plane). Nothing allocates.
+//!
+//! # Examples
+//! ```
+//! use fourforce::{Motion, Species};
+//! use fourforce::transfer::TransferMap;
+//! // An invented 10 MeV proton line: 0.2 m quadrupole of 5 T/m between two 1 m drifts.
+//! let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 10.0e6)?;
+//! let d = TransferMap::try_drift(&p, 1.0)?;
+//! let q = TransferMap::try_quadrupole(&p, 0.2, 5.0)?;
+//! let m = d.then(&q).then(&d).to_array();
+//! // Focusing in x, defocusing in y; the planes stay apart.
+//! assert!(m[0][0] < 1.0 && m[2][2] > 1.0 && m[0][2] == 0.0);
+//! # Ok::<(), fourforce::Error>(())
+//! ```
+
+use crate::{Error, Motion, Real, finite};
+
+/// Bρ of the reference, in T m.
+#[inline]
+fn magnetic_rigidity<T: Real>(motion: &Motion<T>) -> Result<T, Error> {
+    motion.magnetic_rigidity()
+}
+
+/// Eρ of the reference, in V.
+#[inline]
+fn electric_rigidity<T: Real>(motion: &Motion<T>) -> Result<T, Error> {
+    motion.electric_rigidity()
+}
+
+/// `+1` or `−1`, the sign of the charge.
+#[inline]
+fn charge_sign<T: Real>(motion: &Motion<T>) -> T {
+    T::ONE.copysign(motion.species().charge())
+}
+
+/// `Ok(x)` for a finite `x`, else [`Error::Overflow`].
+#[inline]
+fn fits<T: Real>(x: T) -> Result<T, Error> {
+    if x.is_finite() {
+        Ok(x)
+    } else {
+        Err(Error::Overflow)
+    }
+}
+
+/// `sin x / x`, 1 at 0.
+#[inline]
+fn sinc<T: Real>(x: T) -> T {
+    if x == T::ZERO { T::ONE } else { x.sin() / x }
+}
+
+/// `sinh x / x`, 1 at 0.
+#[inline]
+fn sinhc<T: Real>(x: T) -> T {
+    if x == T::ZERO { T::ONE } else { x.sinh() / x }
+}
+
+/// `(x − sin x)/x = 1 − sin x/x`, by its alternating series for `|x| < 2` (no cancellation),
+/// directly above (where `1 − sin x/x > 0.54`).
+fn one_minus_sinc<T: Real>(x: T) -> T {
+    let x2 = x * x;
+    if x2 >= T::from_f64(4.0) {
+        return T::ONE - x.sin() / x;
+    }
+    // x²/3! (1 − x²/(4·5) (1 − x²/(6·7) (1 − ...))): the neglected term of n factors is below
+    // 4ⁿ/(2n+3)!, under 2⁻⁵⁵ for 11 factors and 2⁻²⁸ for 7.
+    const DENOMINATORS: [f64; 11] = [
+        20.0, 42.0, 72.0, 110.0, 156.0, 210.0, 272.0, 342.0, 420.0, 506.0, 600.0,
+    ];
+    let used = if T::MANTISSA_DIGITS > 24 { 11 } else { 7 };
+    let mut r = T::ONE;
+    for &den in DENOMINATORS.iter().take(used).rev() {
+        r = T::ONE - x2 / T::from_f64(den) * r;
+    }
+    x2 / T::from_f64(6.0) * r
+}
+
+/// The 2×2 map of one plane of a focusing element of strength `kappa` (1/m², `> 0` focuses)
+/// and length `L`: `[[c, L s], [−κ L s, c]]` with `φ = √|κ| L`, `c = cos φ`, `s = sin φ/φ` (or
+/// `cosh`, `sinh φ/φ` for `κ < 0`).
+fn focusing_plane<T: Real>(kappa: T, length_m: T) -> Result<[[T; 2]; 2], Error> {
+    let phi = kappa.abs().sqrt() * length_m;
+    let (c, s) = if kappa >= T::ZERO {
+        (phi.cos(), sinc(phi))
+    } else {
+        (fits(phi.cosh())?, fits(sinhc(phi))?)
+    };
+    let r12 = length_m * s;
+    Ok([[c, r12], [fits(-kappa * r12)?, c]])
+}
+
+/// A first-order transfer map in `(x, x', y, y', Δt, δ)`: see the [module documentation](self).
+///
+/// Held as its non-trivial parts: the transverse 4×4 block, the dispersion column (`R₁₆..R₄₆`),
+/// the time row (`R₅₁..R₅₄`), `R56` and `R66`; `R55 = 1`, and the other entries of the fifth
+/// column and the sixth row are zero for every element this crate knows.
+///
+/// # Examples
+/// ```
+/// use fourforce::{Motion, Species};
+/// use fourforce::transfer::TransferMap;
+/// let e = Motion::try_from_kinetic_energy(Species::<f32>::ELECTRON, 5.0e6)?;
+/// let m = TransferMap::try_drift(&e, 2.0)?;
+/// let out = m.apply([1.0e-3, 2.0e-3, 0.0, 0.0, 0.0, 0.0]);
+/// assert!((out[0] - 5.0e-3).abs() < 1e-9); // x + L x'
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct TransferMap<T: Real> {
+    /// `R_ij`, `i, j` in `(x, x', y, y')`.
+    transverse: [[T; 4]; 4],
+    /// `R_i6`, `i` in `(x, x', y, y')`.
+    dispersion: [T; 4],
+    /// `R_5j`, `j` in `(x, x', y, y')`, in s/m and s/rad.
+    time: [T; 4],
+    /// `R56` in s.
+    time_per_delta: T,
+    /// `R66`.
+    delta_scale: T,
+    /// True when a block between the planes may be non-zero.
+    coupled: bool,
+}
+
+impl<T: Real> Default for TransferMap<T> {
+    fn default() -> Self {
+        Self::IDENTITY
+    }
+}
+
+impl<T: Real> TransferMap<T> {
+    /// The identity map (a marker, a thin element of zero strength).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::TransferMap;
+    /// let m = TransferMap::<f64>::IDENTITY.to_array();
+    /// assert_eq!(m[4][4], 1.0);
+    /// assert_eq!(m[0][1], 0.0);
+    /// ```
+    pub const IDENTITY: Self = Self {
+        transverse: [
+            [T::ONE, T::ZERO, T::ZERO, T::ZERO],
+            [T::ZERO, T::ONE, T::ZERO, T::ZERO],
+            [T::ZERO, T::ZERO, T::ONE, T::ZERO],
+            [T::ZERO, T::ZERO, T::ZERO, T::ONE],
+        ],
+        dispersion: [T::ZERO; 4],
+        time: [T::ZERO; 4],
+        time_per_delta: T::ZERO,
+        delta_scale: T::ONE,
+        coupled: false,
+    };
+
+    /// An uncoupled map from its horizontal and vertical blocks and its time per `δ`.
+    fn uncoupled(x: [[T; 2]; 2], y: [[T; 2]; 2], time_per_delta: T) -> Self {
+        let mut m = Self::IDENTITY;
+        m.transverse = [
+            [x[0][0], x[0][1], T::ZERO, T::ZERO],
+            [x[1][0], x[1][1], T::ZERO, T::ZERO],
+            [T::ZERO, T::ZERO, y[0][0], y[0][1]],
+            [T::ZERO, T::ZERO, y[1][0], y[1][1]],
+        ];
+        m.time_per_delta = time_per_delta;
+        m
+    }
+
+    /// `R56 = −L/(v γ²)` of a straight element of length `L`: the later arrival of a slower
+    /// particle (`dv/v = δ/γ²`).
+    fn straight_time(motion: &Motion<T>, length_m: T) -> Result<T, Error> {
+        let gamma = motion.gamma();
+        fits(-(motion.flight_time(length_m) / gamma) / gamma)
+    }
+
+    /// A field-free drift of length `L` (m, ≥ 0): `R12 = R34 = L`, `R56 = −L/(v γ²)`.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`] for a NaN or infinite length; [`Error::NonPositiveLength`] for
+    /// `L < 0`; [`Error::Overflow`] for a reference at rest (it never arrives) with `L > 0`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 1.0e9)?;
+    /// let m = TransferMap::try_drift(&p, 10.0)?.to_array();
+    /// assert_eq!(m[0][1], 10.0);
+    /// // R56 = -L/(v gamma^2): 38.12 ns / 2.0658^2 = 8.93 ns earlier per unit delta
+    /// assert!((m[4][5] / -8.932_9e-9 - 1.0).abs() < 1e-4);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_drift(motion: &Motion<T>, length_m: T) -> Result<Self, Error> {
+        let l = nonnegative(length_m)?;
+        let block = [[T::ONE, l], [T::ZERO, T::ONE]];
+        Ok(Self::uncoupled(
+            block,
+            block,
+            Self::straight_time(motion, l)?,
+        ))
+    }
+
+    /// A thick magnetic quadrupole of length `L` (m, > 0) and gradient `G = ∂B_y/∂x` (T/m).
+    ///
+    /// `k = sign(Q) G/Bρ`; with `φ = √|k| L` the focusing plane (`x` for `k > 0`) is
+    /// `[[cos φ, sin φ/√|k|], [−√|k| sin φ, cos φ]]`, the other `cosh`/`sinh`; `R56 = −L/(v γ²)`.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::NonPositiveLength`] for `L ≤ 0`; [`Error::ZeroCharge`] for a
+    /// neutral species; [`Error::Overflow`] when `cosh φ` does not fit (`φ` above about 89 in
+    /// `f32`) or the reference is at rest.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 250.0e6)?;
+    /// let m = TransferMap::try_quadrupole(&p, 0.3, 10.0)?.to_array();
+    /// let k: f64 = 10.0 / 2.432_128_438_725_504_4; // G / B rho
+    /// assert!((m[0][0] - (k.sqrt() * 0.3).cos()).abs() < 1e-15);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_quadrupole(
+        motion: &Motion<T>,
+        length_m: T,
+        gradient_t_per_m: T,
+    ) -> Result<Self, Error> {
+        let l = positive(length_m)?;
+        let g = finite(gradient_t_per_m)?;
+        let k = fits(charge_sign(motion) * g / magnetic_rigidity(motion)?)?;
+        Self::thick_lens(motion, k, l)
+    }
+
+    /// A thick quadrupole lens of strength `k` (1/m², `> 0` focuses in `x`) and length `L`.
+    fn thick_lens(motion: &Motion<T>, k: T, length_m: T) -> Result<Self, Error> {
+        Ok(Self::uncoupled(
+            focusing_plane(k, length_m)?,
+            focusing_plane(-k, length_m)?,
+            Self::straight_time(motion, length_m)?,
+        ))
+    }
+
+    /// A thin magnetic quadrupole of integrated gradient `∫G dl` (T): `1/f = sign(Q) ∫G dl/Bρ`,
+    /// `R21 = −1/f`, `R43 = +1/f`; no length, no time.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::ZeroCharge`] for a neutral species; [`Error::Overflow`]
+    /// when `1/f` does not fit.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// let e = Motion::try_from_kinetic_energy(Species::<f32>::ELECTRON, 1.0e9)?;
+    /// let m = TransferMap::try_thin_quadrupole(&e, 0.5)?.to_array();
+    /// // An electron: a positive gradient defocuses in x.
+    /// assert!(m[1][0] > 0.0 && m[3][2] < 0.0);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_thin_quadrupole(
+        motion: &Motion<T>,
+        integrated_gradient_t: T,
+    ) -> Result<Self, Error> {
+        let gl = finite(integrated_gradient_t)?;
+        let inverse_focal = fits(charge_sign(motion) * gl / magnetic_rigidity(motion)?)?;
+        Ok(Self::uncoupled(
+            [[T::ONE, T::ZERO], [-inverse_focal, T::ONE]],
+            [[T::ONE, T::ZERO], [inverse_focal, T::ONE]],
+            T::ZERO,
+        ))
+    }
+
+    /// An electrostatic quadrupole of length `L` (m, > 0), electrode voltage `V` (V) and aperture
+    /// radius `a` (m, > 0): the potential `V (x² − y²)/a²` gives `k = sign(Q) 2V/(a² Eρ)`, then
+    /// as [`try_quadrupole`](Self::try_quadrupole).
+    ///
+    /// # Errors
+    /// As [`try_quadrupole`](Self::try_quadrupole); [`Error::NonPositiveLength`] also for
+    /// `a ≤ 0`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// // An invented 30 keV Ar+ implanter lens: 0.1 m, 2 kV on a 25 mm radius.
+    /// let ion = fourforce::Species::<f64>::try_from_atom(39.962_383_12, 1, 15.76)?;
+    /// let a = Motion::try_from_kinetic_energy(ion, 30.0e3)?;
+    /// let m = TransferMap::try_electrostatic_quadrupole(&a, 0.1, 2.0e3, 0.025)?.to_array();
+    /// let k: f64 = 2.0 * 2.0e3 / (0.025 * 0.025 * 60.0e3); // E rho = 2T/Q at low energy
+    /// assert!((m[1][0] / (-(k.sqrt()) * (k.sqrt() * 0.1).sin()) - 1.0).abs() < 1e-5);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_electrostatic_quadrupole(
+        motion: &Motion<T>,
+        length_m: T,
+        voltage_v: T,
+        aperture_radius_m: T,
+    ) -> Result<Self, Error> {
+        let l = positive(length_m)?;
+        let v = finite(voltage_v)?;
+        let a = positive(aperture_radius_m)?;
+        let k = fits(charge_sign(motion) * ((v + v) / (a * a)) / electric_rigidity(motion)?)?;
+        Self::thick_lens(motion, k, l)
+    }
+
+    /// A sector dipole of arc length `L` (m, > 0) bending by `θ` (rad, signed; `ρ = L/θ`), with
+    /// pole-face rotations `e₁` at the entrance and `e₂` at the exit (rad, `|e| < π/2`) as thin
+    /// edge lenses `x' += tan e/ρ · x`, `y' −= tan e/ρ · y`.
+    ///
+    /// Body: `R11 = R22 = cos θ`, `R12 = ρ sin θ`, `R21 = −sin θ/ρ`, `R16 = ρ(1 − cos θ)`,
+    /// `R26 = sin θ`, vertically a drift; time row `R51 = sin θ/v`, `R52 = ρ(1 − cos θ)/v`,
+    /// `R56 = (ρ(θ − sin θ) − L/γ²)/v`. With the edges, `R11 = cos(θ − e₁)/cos e₁`,
+    /// `R22 = cos(θ − e₂)/cos e₂`, `R21 = sin(e₁ + e₂ − θ)/(ρ cos e₁ cos e₂)`. `θ = 0` is a drift.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::NonPositiveLength`] for `L ≤ 0`;
+    /// [`Error::AngleOutOfRange`] for `|e| ≥ π/2`; [`Error::Overflow`] when an entry does not
+    /// fit or the reference is at rest.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 250.0e6)?;
+    /// // A rectangular magnet (e1 = e2 = theta/2) is horizontally a drift of rho sin(theta).
+    /// let (l, theta) = (1.4, 0.7);
+    /// let m = TransferMap::try_sector_dipole(&p, l, theta, theta / 2.0, theta / 2.0)?.to_array();
+    /// assert_eq!((m[0][0], m[1][0], m[1][1]), (1.0, 0.0, 1.0));
+    /// assert!((m[0][1] - l / theta * theta.sin()).abs() < 1e-15);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_sector_dipole(
+        motion: &Motion<T>,
+        length_m: T,
+        angle_rad: T,
+        entry_rad: T,
+        exit_rad: T,
+    ) -> Result<Self, Error> {
+        let l = positive(length_m)?;
+        let theta = finite(angle_rad)?;
+        let (e1, e2) = (edge_angle(entry_rad)?, edge_angle(exit_rad)?);
+        let s = theta.sin();
+        let (c1, c2) = (e1.cos(), e2.cos());
+        let (t1, t2) = (e1.tan(), e2.tan());
+        let h = theta / l; // 1/ρ
+        let half = theta * T::HALF;
+        let sinc_half = sinc(half);
+        // ρ(1 − cos θ) = 2ρ sin²(θ/2) = L (θ/2) (sin(θ/2)/(θ/2))²
+        let r16 = l * half * sinc_half * sinc_half;
+        let one_minus_cos = theta * half * sinc_half * sinc_half;
+        let r12 = l * sinc(theta);
+        let r11 = (theta - e1).cos() / c1;
+        let r22 = (theta - e2).cos() / c2;
+        let r21 = h * ((e1 + e2 - theta).sin() / (c1 * c2));
+        let r26 = s + t2 * one_minus_cos;
+        // vertical: exit edge · drift · entry edge
+        let y11 = T::ONE - theta * t1;
+        let y22 = T::ONE - theta * t2;
+        let y21 = -h * (t1 + t2 - theta * t1 * t2);
+        let per_metre = motion.flight_time_per_metre();
+        let gamma = motion.gamma();
+        // (ρ(θ − sin θ) − L/γ²)/v
+        let r56 = (l * one_minus_sinc(theta) - l / gamma / gamma) * per_metre;
+        let mut m = Self::IDENTITY;
+        m.transverse = [
+            [r11, r12, T::ZERO, T::ZERO],
+            [r21, r22, T::ZERO, T::ZERO],
+            [T::ZERO, T::ZERO, y11, l],
+            [T::ZERO, T::ZERO, y21, y22],
+        ];
+        m.dispersion = [r16, r26, T::ZERO, T::ZERO];
+        // R51 after the entry edge: (sin θ + tan e₁ (1 − cos θ))/v; R52 = ρ(1 − cos θ)/v
+        m.time = [
+            (s + t1 * one_minus_cos) * per_metre,
+            r16 * per_metre,
+            T::ZERO,
+            T::ZERO,
+        ];
+        m.time_per_delta = r56;
+        m.checked()
+    }
+
+    /// A solenoid of length `L` (m, > 0) and axial field `B` (T), hard edge (its fringe fields
+    /// included): with `K = sign(Q) B/(2Bρ)`, `C = cos KL`, `S = sin KL`,
+    ///
+    /// ```text
+    /// [[ C²,    SC/K,  SC,    S²/K ],
+    ///  [ −K SC, C²,    −K S², SC   ],
+    ///  [ −SC,   −S²/K, C²,    SC/K ],
+    ///  [ K S²,  −SC,   −K SC, C²   ]]
+    /// ```
+    ///
+    /// (a rotation by `KL` times a focusing of strength `K²` in both planes); `R56 = −L/(v γ²)`.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::NonPositiveLength`] for `L ≤ 0`; [`Error::ZeroCharge`];
+    /// [`Error::Overflow`] for a reference at rest.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// let e = Motion::try_from_kinetic_energy(Species::<f64>::ELECTRON, 100.0e3)?;
+    /// let m = TransferMap::try_solenoid(&e, 0.1, 0.01)?.to_array();
+    /// assert!(m[0][2] != 0.0); // x and y are coupled
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_solenoid(motion: &Motion<T>, length_m: T, field_t: T) -> Result<Self, Error> {
+        let l = positive(length_m)?;
+        let b = finite(field_t)?;
+        let brho = magnetic_rigidity(motion)?;
+        let kappa = fits(charge_sign(motion) * b / (brho + brho))?;
+        let phi = kappa * l;
+        let (s, c) = (phi.sin(), phi.cos());
+        let sl = l * sinc(phi); // S/K
+        let (cc, sc, ss) = (c * c, s * c, s * s);
+        let (sc_k, ss_k) = (sl * c, sl * s);
+        let (ksc, kss) = (kappa * sc, kappa * ss);
+        let mut m = Self::IDENTITY;
+        m.transverse = [
+            [cc, sc_k, sc, ss_k],
+            [-ksc, cc, -kss, sc],
+            [-sc, -ss_k, cc, sc_k],
+            [kss, -sc, -ksc, cc],
+        ];
+        m.time_per_delta = Self::straight_time(motion, l)?;
+        m.coupled = true;
+        m.checked()
+    }
+
+    /// A thin accelerating gap of voltage `V` (V): the reference gains `ΔT = Q V`; `x'` and `y'`
+    /// scale by `p₀/p₁` (adiabatic damping), `δ` by `v₀p₀/(v₁p₁)` (the same energy gain for
+    /// every particle). Returns the map and the reference after the gap.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::BelowRestEnergy`] when the gap takes more than the kinetic
+    /// energy; [`Error::Overflow`] when it brings the reference to rest (no map exists) or the
+    /// reference starts at rest.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 1.0e6)?;
+    /// let (m, after) = TransferMap::try_gap(&p, 3.0e6)?;
+    /// assert_eq!(after.kinetic_energy(), 4.0e6);
+    /// // Non-relativistic: p ~ sqrt(T), so x' scales by 1/2 and delta by 1/4.
+    /// let m = m.to_array();
+    /// assert!((m[1][1] - 0.5).abs() < 1e-3 && (m[5][5] - 0.25).abs() < 1e-3);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_gap(motion: &Motion<T>, voltage_v: T) -> Result<(Self, Motion<T>), Error> {
+        let v = finite(voltage_v)?;
+        let species = motion.species();
+        let gain = species.charge() * v;
+        if gain == T::ZERO {
+            return Ok((Self::IDENTITY, *motion));
+        }
+        let kinetic = motion.kinetic_energy() + gain;
+        if kinetic < T::ZERO {
+            return Err(Error::BelowRestEnergy);
+        }
+        let after = Motion::try_from_kinetic_energy(species, kinetic)?;
+        if motion.momentum() == T::ZERO || after.momentum() == T::ZERO {
+            return Err(Error::Overflow);
+        }
+        let slope = motion.momentum() / after.momentum();
+        // v p = Eρ |Q|: the ratio of the electric rigidities, each free of cancellation
+        let delta = electric_rigidity(motion)? / electric_rigidity(&after)?;
+        let mut m = Self::IDENTITY;
+        m.transverse[1][1] = slope;
+        m.transverse[3][3] = slope;
+        m.delta_scale = delta;
+        Ok((m.checked()?, after))
+    }
+
+    /// `Ok(self)` if every entry is finite, else [`Error::Overflow`].
+    fn checked(self) -> Result<Self, Error> {
+        let finite_rows = self.transverse.iter().flatten().all(|x| x.is_finite());
+        let rest = self
+            .dispersion
+            .iter()
+            .chain(self.time.iter())
+            .all(|x| x.is_finite());
+        if finite_rows && rest && self.time_per_delta.is_finite() && self.delta_scale.is_finite() {
+            Ok(self)
+        } else {
+            Err(Error::Overflow)
+        }
+    }
+
+    /// The map of `self` followed by `next` (apply `self` first): the matrix product
+    /// `next · self`.
+    ///
+    /// Rounding: each entry is a sum of products, rounded once per term (the rounding scale is
+    /// the product of the absolute values). The result may overflow to infinity for absurd
+    /// lines; [`BeamLine`](crate::beamline::BeamLine)'s maps check for that.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 1.0e6)?;
+    /// let two = TransferMap::try_drift(&p, 1.0)?.then(&TransferMap::try_drift(&p, 2.0)?);
+    /// assert_eq!(two, TransferMap::try_drift(&p, 3.0)?);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn then(&self, next: &Self) -> Self {
+        let a = &self.transverse;
+        let b = &next.transverse;
+        let mut out = Self::IDENTITY;
+        out.coupled = self.coupled || next.coupled;
+        // transverse = B A; while neither couples, only the diagonal 2×2 blocks are non-zero
+        if out.coupled {
+            for (row, b_row) in out.transverse.iter_mut().zip(b) {
+                for (j, entry) in row.iter_mut().enumerate() {
+                    *entry = b_row
+                        .iter()
+                        .zip(a)
+                        .fold(T::ZERO, |sum, (&bik, a_row)| sum + bik * column(a_row, j));
+                }
+            }
+        } else {
+            for base in [0, 2] {
+                for i in base..base + 2 {
+                    for j in base..base + 2 {
+                        let value = entry(b, i, base) * entry(a, base, j)
+                            + entry(b, i, base + 1) * entry(a, base + 1, j);
+                        set(&mut out.transverse, i, j, value);
+                    }
+                }
+            }
+        }
+        // dispersion = B d_a + d_b s_a
+        for (i, (d, b_row)) in out.dispersion.iter_mut().zip(b).enumerate() {
+            let carried = b_row
+                .iter()
+                .zip(&self.dispersion)
+                .fold(T::ZERO, |sum, (&bik, &dk)| sum + bik * dk);
+            *d = carried + column(&next.dispersion, i) * self.delta_scale;
+        }
+        // time = t_b A + t_a
+        for (j, t) in out.time.iter_mut().enumerate() {
+            let carried = next
+                .time
+                .iter()
+                .zip(a)
+                .fold(T::ZERO, |sum, (&tk, a_row)| sum + tk * column(a_row, j));
+            *t = carried + column(&self.time, j);
+        }
+        // R56 = t_b · d_a + R56_a + R56_b s_a
+        let through = next
+            .time
+            .iter()
+            .zip(&self.dispersion)
+            .fold(T::ZERO, |sum, (&tk, &dk)| sum + tk * dk);
+        out.time_per_delta = through + self.time_per_delta + next.time_per_delta * self.delta_scale;
+        out.delta_scale = next.delta_scale * self.delta_scale;
+        out
+    }
+
+    /// The state `(x, x', y, y', Δt, δ)` after the map.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 1.0e9)?;
+    /// let out = TransferMap::try_drift(&p, 10.0)?.apply([0.0, 0.0, 0.0, 0.0, 0.0, 1.0e-3]);
+    /// assert!(out[4] < 0.0); // a faster particle arrives earlier
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn apply(&self, v: [T; 6]) -> [T; 6] {
+        let [x, xp, y, yp, dt, delta] = v;
+        let u = [x, xp, y, yp];
+        let row =
+            |r: &[T; 4], d: T| r.iter().zip(&u).fold(T::ZERO, |s, (&a, &b)| s + a * b) + d * delta;
+        let [r0, r1, r2, r3] = &self.transverse;
+        let [d0, d1, d2, d3] = self.dispersion;
+        [
+            row(r0, d0),
+            row(r1, d1),
+            row(r2, d2),
+            row(r3, d3),
+            row(&self.time, self.time_per_delta) + dt,
+            self.delta_scale * delta,
+        ]
+    }
+
+    /// The full 6×6 matrix, rows and columns in `(x, x', y, y', Δt, δ)`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 1.0e6)?;
+    /// let m = TransferMap::try_sector_dipole(&p, 1.0, 0.5, 0.0, 0.0)?.to_array();
+    /// assert!((m[0][5] - 2.0 * (1.0 - 0.5_f64.cos())).abs() < 1e-15); // rho (1 - cos theta)
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn to_array(&self) -> [[T; 6]; 6] {
+        let mut m = [[T::ZERO; 6]; 6];
+        for (i, (row, src)) in m.iter_mut().zip(&self.transverse).enumerate() {
+            row[..4].copy_from_slice(src);
+            row[5] = column(&self.dispersion, i);
+        }
+        let [.., time_row, delta_row] = &mut m;
+        time_row[..4].copy_from_slice(&self.time);
+        time_row[4] = T::ONE;
+        time_row[5] = self.time_per_delta;
+        delta_row[5] = self.delta_scale;
+        m
+    }
+
+    /// True when the map may couple the planes (it contains a solenoid).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::TransferMap;
+    /// assert!(!TransferMap::<f32>::IDENTITY.is_coupled());
+    /// ```
+    #[must_use]
+    #[inline]
+    pub fn is_coupled(&self) -> bool {
+        self.coupled
+    }
+}
+
+/// `a[i][j]`, 0 outside (never happens for the fixed indices used here).
+#[inline]
+fn entry<T: Real>(a: &[[T; 4]; 4], i: usize, j: usize) -> T {
+    a.get(i).and_then(|r| r.get(j)).copied().unwrap_or(T::ZERO)
+}
+
+/// `a[i][j] = value`, ignored outside.
+#[inline]
+fn set<T: Real>(a: &mut [[T; 4]; 4], i: usize, j: usize, value: T) {
+    if let Some(x) = a.get_mut(i).and_then(|r| r.get_mut(j)) {
+        *x = value;
+    }
+}
+
+/// `v[j]`, 0 outside.
+#[inline]
+fn column<T: Real>(v: &[T; 4], j: usize) -> T {
+    v.get(j).copied().unwrap_or(T::ZERO)
+}
+
+/// A finite length ≥ 0.
+fn nonnegative<T: Real>(length_m: T) -> Result<T, Error> {
+    if finite(length_m)? < T::ZERO {
+        Err(Error::NonPositiveLength)
+    } else {
+        Ok(length_m)
+    }
+}
+
+/// A finite length > 0.
+fn positive<T: Real>(length_m: T) -> Result<T, Error> {
+    if finite(length_m)? <= T::ZERO {
+        Err(Error::NonPositiveLength)
+    } else {
+        Ok(length_m)
+    }
+}
+
+/// A finite pole-face angle below π/2 in magnitude.
+fn edge_angle<T: Real>(angle_rad: T) -> Result<T, Error> {
+    if finite(angle_rad)?.abs() >= T::PI * T::HALF {
+        Err(Error::AngleOutOfRange)
+    } else {
+        Ok(angle_rad)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::Species;
+
+    #[test]
+    fn one_minus_sinc_series_meets_the_direct_form_at_the_threshold() {
+        for x in [1.9_f64, 1.99, 2.0, -1.999] {
+            let direct = 1.0 - x.sin() / x;
+            assert!(
+                (one_minus_sinc(x) / direct - 1.0).abs() < 4.0 * f64::EPSILON,
+                "{x}"
+            );
+        }
+        // tiny argument: x²/6 exactly enough
+        assert!((one_minus_sinc(1.0e-10_f64) / (1.0e-20 / 6.0) - 1.0).abs() < 2.0 * f64::EPSILON);
+        let y = 0.5_f32;
+        let exact = 1.0 - 0.5_f64.sin() / 0.5;
+        assert!((f64::from(one_minus_sinc(y)) / exact - 1.0).abs() < 2.0 * f64::from(f32::EPSILON));
+    }
+
+    #[test]
+    fn uncoupled_and_coupled_products_agree() {
+        let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 5.0e6).unwrap();
+        let q = TransferMap::try_quadrupole(&p, 0.2, 3.0).unwrap();
+        let b = TransferMap::try_sector_dipole(&p, 1.0, 0.3, 0.1, -0.05).unwrap();
+        let mut forced = q;
+        forced.coupled = true;
+        assert_eq!(forced.then(&b).to_array(), q.then(&b).to_array());
+    }
+}
