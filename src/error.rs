@@ -66,6 +66,13 @@ pub enum Error {
     /// A rest energy was below 1 eV: far below any charged particle's, and where the states of
     /// motion would underflow.
     RestEnergyTooSmall,
+    // --- orbit ---
+    /// An iterative decomposition did not converge within its sweep limit.
+    NotConverged,
+    /// A value lies outside the range of a calibration table (no extrapolation).
+    OutsideCalibration,
+    /// Calibration points were not strictly increasing in both coordinates.
+    NotMonotone,
 }
 
 impl fmt::Display for Error {
@@ -90,6 +97,9 @@ impl fmt::Display for Error {
             Error::InvalidRange => "lower bound is above upper bound",
             Error::GainOutOfRange => "feedback gain is outside (0, 2)",
             Error::RestEnergyTooSmall => "rest energy is below 1 eV",
+            Error::NotConverged => "decomposition did not converge",
+            Error::OutsideCalibration => "value is outside the calibration table",
+            Error::NotMonotone => "calibration points are not strictly increasing",
         })
     }
 }
@@ -133,6 +143,9 @@ mod tests {
             Error::InvalidRange,
             Error::GainOutOfRange,
             Error::RestEnergyTooSmall,
+            Error::NotConverged,
+            Error::OutsideCalibration,
+            Error::NotMonotone,
         ];
         let messages: Vec<_> = all.iter().map(ToString::to_string).collect();
         for (i, m) in messages.iter().enumerate() {

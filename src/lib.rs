@@ -90,6 +90,7 @@ pub mod beamline;
 pub mod check;
 pub mod push;
 pub mod steer;
+mod svd;
 
 // --- integrations and fast paths ---
 #[cfg(feature = "micromath")]
