@@ -88,6 +88,7 @@ pub mod transfer;
 // --- motion: pushers, beam line, checks, steering ---
 pub mod beamline;
 pub mod check;
+pub mod orbit;
 pub mod push;
 pub mod steer;
 mod svd;

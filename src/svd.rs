@@ -180,13 +180,25 @@ mod tests {
         let mut a = [[f32::NAN, 0.0]];
         let mut v = [[0.0_f32; 1]; 1];
         let mut s = [0.0_f32; 1];
-        assert_eq!(try_decompose(&mut a, 2, &mut v, &mut s), Err(Error::NonFinite));
+        assert_eq!(
+            try_decompose(&mut a, 2, &mut v, &mut s),
+            Err(Error::NonFinite)
+        );
         let mut a = [[1.0e30_f32, 1.0e30]];
-        assert_eq!(try_decompose(&mut a, 2, &mut v, &mut s), Err(Error::Overflow));
+        assert_eq!(
+            try_decompose(&mut a, 2, &mut v, &mut s),
+            Err(Error::Overflow)
+        );
         let mut a = [[1.0_f32, 0.0]];
-        assert_eq!(try_decompose(&mut a, 3, &mut v, &mut s), Err(Error::OutOfBounds));
+        assert_eq!(
+            try_decompose(&mut a, 3, &mut v, &mut s),
+            Err(Error::OutOfBounds)
+        );
         let mut a = [[0.0_f32; 2]; 2];
-        assert_eq!(try_decompose(&mut a, 2, &mut v, &mut s), Err(Error::OutOfBounds));
+        assert_eq!(
+            try_decompose(&mut a, 2, &mut v, &mut s),
+            Err(Error::OutOfBounds)
+        );
         let mut v = [[0.0_f32; 2]; 2];
         let mut s = [0.0_f32; 2];
         assert_eq!(try_decompose(&mut a, 2, &mut v, &mut s), Ok(1));

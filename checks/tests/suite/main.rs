@@ -22,6 +22,7 @@ mod motion_beamline;
 mod motion_check;
 mod motion_push;
 mod motion_steer;
+mod orbit;
 mod reliability_mutants;
 mod reliability_regressions;
 mod transfer;

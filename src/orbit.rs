@@ -1,0 +1,1351 @@
+//! Steering a whole line: many correctors, many monitors, limits, failed monitors, magnet
+//! currents, and settings that follow the energy.
+//!
+//! # Model
+//! Corrector `j` is a thin kick whose angle is proportional to its setting `s_j` (the integrated
+//! field `∫B dl` in T m of a magnetic corrector, or `∫E dl` in V of an electrostatic one):
+//! `θ_j = κ_j s_j` with `κ_j = ±1/Bρ` or `±1/Eρ` (the sign of the charge) at the corrector.
+//! Monitor `i` reads the offsets `(x_i, y_i)` (m). To first order the readings change by
+//! `Δb = R Δθ`, the [`Response`] `R` (2M × C, m/rad): the entries `R₁₂, R₁₄, R₃₂, R₃₄` of the
+//! transfer map from the corrector to the monitor (zero for a monitor upstream), with the kick
+//! along its direction; the x–y blocks are coupled only when the line couples them (a solenoid
+//! or a rotated kick).
+//!
+//! # Correction
+//! With monitor weights `w_i` (1/m: typically one over the monitor's resolution, 0 ignores it),
+//! `D = diag(w)` and readings `b` (the offsets from the wanted orbit), the full correction solves
+//!
+//! ```text
+//! min over Δθ of  ‖D (b + R Δθ)‖² + (α σ_max)² ‖Δθ‖²
+//! Δθ* = −V diag(1/(σ_k² + (α σ_max)²)) Wᵀ D b     (A = D R = W Vᵀ, W = U Σ)
+//! ```
+//!
+//! `α ≥ 0` is the Tikhonov parameter relative to the largest singular value `σ_max` of `D R`; at
+//! `α = 0` this is the minimum-norm least-squares solution. Singular values below
+//! `cutoff · σ_max` are dropped in both cases. The decomposition is the one-sided Jacobi SVD of
+//! the crate's private `svd` module; it is computed only when the set of monitors in use, the
+//! response (the energy) or the set of correctors held at a limit changes, and its result is kept
+//! as a gain matrix `G` (settings per metre of reading). Every other iteration costs one
+//! matrix–vector product: `Δs = g G b` with the loop gain `0 < g < 2`. With an exact model the
+//! offsets in the range of `R` shrink by `(1 − g)` per iteration (with `α = 0`).
+//!
+//! When the line does not couple the planes (every corrector moves only x or only y readings), the
+//! two planes are decomposed separately, which costs a quarter of one coupled decomposition.
+//!
+//! # Limits (an active-set step)
+//! Each corrector has a setting range `[min, max]` (saturation) and a largest change per
+//! iteration (rate). A corrector whose step would cross a limit is held at that limit, and the
+//! other correctors are solved again for the rest (the readings the held ones leave); this repeats
+//! until no free corrector crosses a limit (at most C times). The [`Outcome`] says which limits
+//! acted.
+//!
+//! # Failed monitors
+//! A reading that is not finite, lies outside the monitor's range, or is stuck (the same value in
+//! `N` consecutive iterations while correctors that move it changed, detected with the `check`
+//! module's [`MovingWindow`]) removes the monitor from the next solve and the decomposition is
+//! computed again; [`Outcome::monitor_in_use`] reports the set. A dropped monitor stays out until
+//! [`Orbit::restore_monitor`]. When the monitors left cannot determine the correctors (fewer
+//! independent readings than correctors in a plane), the step is [`State::Hold`]: no corrector
+//! moves, never a wild correction.
+//!
+//! # Energy
+//! A new beam energy changes every `κ_j` and, through the focusing, `R`. [`Orbit::try_set_response`]
+//! loads the response of the new energy and rescales every set point by `κ_old/κ_new`, so the
+//! kicks, and with them the orbit, stay as they were; a rescaled set point outside its range is
+//! held at the limit and reported.
+//!
+//! # Caution
+//! This computes set points. Interlocks, machine protection and the supervision of power
+//! supplies are separate, certified systems; they must not rely on this code.
+//!
+//! # Examples
+//! ```
+//! use fourforce::orbit::{Corrector, Monitor, Orbit, Response, State, Tuning};
+//! // Two monitors, two correctors (one per plane), planes uncoupled: monitor 1 sees corrector h
+//! // with 2 m/rad in x, corrector v with 3 m/rad in y; monitor 0 is upstream of both.
+//! let mut per_kick = [[[0.0_f64; 2]; 2]; 2]; // [corrector][plane][monitor]
+//! per_kick[0][0][1] = 2.0;
+//! per_kick[1][1][1] = 3.0;
+//! let response = Response::try_new(per_kick, [0.5, 0.5])?; // rad per T m (Bρ = 2 T m)
+//! let monitor = Monitor::try_new(0.01, 1.0)?;
+//! let corrector = Corrector::try_new(-0.01, 0.01, 0.01)?;
+//! let tuning = Tuning::try_new(1.0, 0.0, 1.0e-6)?;
+//! let mut orbit = Orbit::<f64, 2, 2>::try_new(response, [monitor; 2], [corrector; 2], tuning)?;
+//! let mut settings = [0.0; 2];
+//! let outcome = orbit.try_step(&[[0.0, 0.0], [1.0e-3, -2.0e-3]], &mut settings)?;
+//! assert_eq!(outcome.state(), State::Correcting);
+//! // x: 1 mm / (2 m/rad × 0.5 rad/(T m)) = 1 mT m the other way; y: 2 mm / 1.5 m/(T m).
+//! assert!((settings[0] + 1.0e-3).abs() < 1e-15 && (settings[1] - 2.0e-3 / 1.5).abs() < 1e-15);
+//! # Ok::<(), fourforce::Error>(())
+//! ```
+
+use crate::check::MovingWindow;
+use crate::svd;
+use crate::{Error, Real, finite};
+
+/// The response of the monitor readings to the corrector settings at one energy.
+///
+/// `per_kick[j][p][i]` (m/rad) is the change of monitor `i`'s reading in plane `p` (0 = x,
+/// 1 = y) per radian of corrector `j`'s kick; `kick_per_setting[j]` (rad per T m, or per V) is
+/// `κ_j = ±1/Bρ` (magnetic) or `±1/Eρ` (electrostatic) at the corrector, the sign that of the
+/// charge.
+///
+/// # Examples
+/// ```
+/// use fourforce::orbit::Response;
+/// let r = Response::<f32, 1, 1>::try_new([[[2.0], [0.0]]], [0.25])?;
+/// assert_eq!(r.reading_per_setting(0, 0, 0), Some(0.5)); // m per T m
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Response<T: Real, const M: usize, const C: usize> {
+    per_kick: [[[T; M]; 2]; C],
+    kick_per_setting: [T; C],
+}
+
+impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
+    /// A response from its entries: `per_kick_m_per_rad[j][p][i]` (m/rad) and
+    /// `kick_per_setting[j]` (rad per unit of setting: `±1/Bρ` in 1/(T m) or `±1/Eρ` in 1/V).
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`] for a non-finite entry; [`Error::ZeroField`] for a zero
+    /// `kick_per_setting` (a corrector that cannot kick: a neutral beam).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, orbit::Response};
+    /// assert_eq!(Response::<f64, 1, 1>::try_new([[[1.0], [0.0]]], [0.0]), Err(Error::ZeroField));
+    /// ```
+    pub fn try_new(
+        per_kick_m_per_rad: [[[T; M]; 2]; C],
+        kick_per_setting: [T; C],
+    ) -> Result<Self, Error> {
+        for column in &per_kick_m_per_rad {
+            for x in column.as_flattened() {
+                finite(*x)?;
+            }
+        }
+        for k in &kick_per_setting {
+            if finite(*k)? == T::ZERO {
+                return Err(Error::ZeroField);
+            }
+        }
+        Ok(Self {
+            per_kick: per_kick_m_per_rad,
+            kick_per_setting,
+        })
+    }
+
+    /// The change of monitor `monitor`'s reading in plane `plane` (0 = x, 1 = y) per unit of
+    /// corrector `corrector`'s setting, `R κ` in m per T m (or per V); `None` past the ends.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Response;
+    /// let r = Response::<f64, 1, 1>::try_new([[[2.0], [0.0]]], [-0.5])?;
+    /// assert_eq!(r.reading_per_setting(0, 0, 0), Some(-1.0));
+    /// assert_eq!(r.reading_per_setting(0, 2, 0), None);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn reading_per_setting(&self, monitor: usize, plane: usize, corrector: usize) -> Option<T> {
+        let r = self.per_kick.get(corrector)?.get(plane)?.get(monitor)?;
+        Some(*r * *self.kick_per_setting.get(corrector)?)
+    }
+
+    /// `κ_j`, the kick per unit of setting of corrector `j` (rad per T m or per V).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Response;
+    /// let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [0.25])?;
+    /// assert_eq!(r.kick_per_setting(), &[0.25]);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn kick_per_setting(&self) -> &[T; C] {
+        &self.kick_per_setting
+    }
+
+    /// The predicted change of the readings `[[Δx, Δy]; M]` (m) for the setting changes
+    /// `changes` (T m or V): `R κ Δs`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Response;
+    /// let r = Response::<f64, 1, 1>::try_new([[[2.0], [1.0]]], [0.5])?;
+    /// assert_eq!(r.predict(&[1.0e-3]), [[1.0e-3, 0.5e-3]]);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn predict(&self, changes: &[T; C]) -> [[T; 2]; M] {
+        let mut out = [[T::ZERO; 2]; M];
+        for ((column, k), ds) in self
+            .per_kick
+            .iter()
+            .zip(&self.kick_per_setting)
+            .zip(changes)
+        {
+            let kick = *k * *ds;
+            for (p, plane) in column.iter().enumerate() {
+                for (reading, r) in out.iter_mut().zip(plane) {
+                    if let Some(x) = reading.get_mut(p) {
+                        *x += *r * kick;
+                    }
+                }
+            }
+        }
+        out
+    }
+
+    fn column_plane(&self, j: usize) -> Plane {
+        let Some(column) = self.per_kick.get(j) else {
+            return Plane::Both;
+        };
+        let moves = |p: usize| {
+            column
+                .get(p)
+                .is_some_and(|c| c.iter().any(|r| *r != T::ZERO))
+        };
+        match (moves(0), moves(1)) {
+            (true, true) => Plane::Both,
+            (false, true) => Plane::Y,
+            _ => Plane::X,
+        }
+    }
+}
+
+/// Which readings a corrector moves.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+enum Plane {
+    X,
+    Y,
+    Both,
+}
+
+/// One position monitor: the range of a trustworthy reading and its weight in the correction.
+///
+/// # Examples
+/// ```
+/// use fourforce::orbit::Monitor;
+/// let m = Monitor::try_new(5.0e-3_f32, 1.0)?;
+/// assert_eq!((m.range_m(), m.weight()), (5.0e-3, 1.0));
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Monitor<T: Real> {
+    range_m: T,
+    weight: T,
+}
+
+impl<T: Real> Monitor<T> {
+    /// A monitor whose readings `|x|, |y| ≤ range_m` (m) are trusted, weighted by `weight` (1/m or
+    /// dimensionless, the same for all monitors of a loop; 0 leaves the monitor out of the
+    /// correction).
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::NonPositiveLength`] for a range that is not positive;
+    /// [`Error::NegativeMagnitude`] for a negative weight.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, orbit::Monitor};
+    /// assert_eq!(Monitor::try_new(0.0_f64, 1.0), Err(Error::NonPositiveLength));
+    /// ```
+    pub fn try_new(range_m: T, weight: T) -> Result<Self, Error> {
+        if finite(range_m)? <= T::ZERO {
+            return Err(Error::NonPositiveLength);
+        }
+        if finite(weight)? < T::ZERO {
+            return Err(Error::NegativeMagnitude);
+        }
+        Ok(Self { range_m, weight })
+    }
+
+    /// The largest trusted `|reading|` in m.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Monitor;
+    /// assert_eq!(Monitor::try_new(2.0e-3_f64, 1.0)?.range_m(), 2.0e-3);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn range_m(&self) -> T {
+        self.range_m
+    }
+
+    /// The weight of the monitor's readings.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Monitor;
+    /// assert_eq!(Monitor::try_new(2.0e-3_f64, 0.5)?.weight(), 0.5);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn weight(&self) -> T {
+        self.weight
+    }
+}
+
+/// One corrector's limits, in the units of its setting (T m for a magnetic corrector, V for an
+/// electrostatic one).
+///
+/// # Examples
+/// ```
+/// use fourforce::orbit::Corrector;
+/// let c = Corrector::try_new(-4.0e-3_f32, 4.0e-3, 0.1e-3)?;
+/// assert_eq!((c.min(), c.max(), c.max_step()), (-4.0e-3, 4.0e-3, 0.1e-3));
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Corrector<T: Real> {
+    min: T,
+    max: T,
+    max_step: T,
+}
+
+impl<T: Real> Corrector<T> {
+    /// A corrector set within `[min, max]` that moves by at most `max_step` per iteration.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::InvalidRange`] for `min > max`;
+    /// [`Error::NegativeMagnitude`] for a negative `max_step` (0 freezes the corrector).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, orbit::Corrector};
+    /// assert_eq!(Corrector::try_new(1.0_f64, -1.0, 0.1), Err(Error::InvalidRange));
+    /// ```
+    pub fn try_new(min: T, max: T, max_step: T) -> Result<Self, Error> {
+        let (min, max, max_step) = (finite(min)?, finite(max)?, finite(max_step)?);
+        if min > max {
+            return Err(Error::InvalidRange);
+        }
+        if max_step < T::ZERO {
+            return Err(Error::NegativeMagnitude);
+        }
+        Ok(Self { min, max, max_step })
+    }
+
+    /// Lowest setting.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Corrector;
+    /// assert_eq!(Corrector::try_new(-1.0_f32, 2.0, 0.1)?.min(), -1.0);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn min(&self) -> T {
+        self.min
+    }
+
+    /// Highest setting.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Corrector;
+    /// assert_eq!(Corrector::try_new(-1.0_f32, 2.0, 0.1)?.max(), 2.0);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn max(&self) -> T {
+        self.max
+    }
+
+    /// Largest change per iteration.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Corrector;
+    /// assert_eq!(Corrector::try_new(-1.0_f32, 2.0, 0.1)?.max_step(), 0.1);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn max_step(&self) -> T {
+        self.max_step
+    }
+}
+
+/// The loop's tuning: gain, Tikhonov parameter and singular-value cutoff.
+///
+/// # Examples
+/// ```
+/// use fourforce::orbit::Tuning;
+/// let t = Tuning::try_new(0.5_f32, 0.01, 1.0e-3)?;
+/// assert_eq!((t.gain(), t.regularisation(), t.cutoff()), (0.5, 0.01, 1.0e-3));
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Tuning<T: Real> {
+    gain: T,
+    regularisation: T,
+    cutoff: T,
+}
+
+impl<T: Real> Tuning<T> {
+    /// Gain `g` (`0 < g < 2`), Tikhonov parameter `α ≥ 0` relative to the largest singular value,
+    /// and the relative cutoff below which singular values are dropped (`0 ≤ cutoff < 1`; below
+    /// about `10 ε √rows` it drops only exact zeros).
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::GainOutOfRange`]; [`Error::NegativeMagnitude`] for a negative
+    /// `α`; [`Error::InvalidRange`] for a cutoff outside `[0, 1)`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, orbit::Tuning};
+    /// assert_eq!(Tuning::try_new(2.0_f64, 0.0, 1e-6), Err(Error::GainOutOfRange));
+    /// assert_eq!(Tuning::try_new(1.0_f64, 0.0, 1.0), Err(Error::InvalidRange));
+    /// ```
+    pub fn try_new(gain: T, regularisation: T, cutoff: T) -> Result<Self, Error> {
+        let (gain, regularisation, cutoff) =
+            (finite(gain)?, finite(regularisation)?, finite(cutoff)?);
+        if gain <= T::ZERO || gain >= T::TWO {
+            return Err(Error::GainOutOfRange);
+        }
+        if regularisation < T::ZERO {
+            return Err(Error::NegativeMagnitude);
+        }
+        if !(T::ZERO..T::ONE).contains(&cutoff) {
+            return Err(Error::InvalidRange);
+        }
+        Ok(Self {
+            gain,
+            regularisation,
+            cutoff,
+        })
+    }
+
+    /// The loop gain `g`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Tuning;
+    /// assert_eq!(Tuning::try_new(0.7_f64, 0.0, 0.0)?.gain(), 0.7);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn gain(&self) -> T {
+        self.gain
+    }
+
+    /// The Tikhonov parameter `α` (relative to `σ_max`).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Tuning;
+    /// assert_eq!(Tuning::try_new(0.7_f64, 0.1, 0.0)?.regularisation(), 0.1);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn regularisation(&self) -> T {
+        self.regularisation
+    }
+
+    /// The relative singular-value cutoff.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Tuning;
+    /// assert_eq!(Tuning::try_new(0.7_f64, 0.0, 1e-4)?.cutoff(), 1e-4);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn cutoff(&self) -> T {
+        self.cutoff
+    }
+}
+
+/// What the loop did in one iteration.
+///
+/// # Examples
+/// ```
+/// use fourforce::orbit::State;
+/// let hold = State::Hold { rank: 2, correctors: 3 };
+/// assert_ne!(hold, State::Correcting);
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum State {
+    /// The correctors moved (or stayed, with nothing to correct).
+    Correcting,
+    /// The monitors in use cannot determine the correctors of a plane: no corrector moved.
+    Hold {
+        /// Independent readings left (singular values above the cutoff) in the plane that lacks
+        /// them.
+        rank: u8,
+        /// Correctors to determine in that plane.
+        correctors: u8,
+    },
+}
+
+/// The report of one iteration: the state, the limits that acted, the monitors in use.
+///
+/// Bit `j` of a corrector mask is corrector `j`, bit `i` of the monitor mask monitor `i`.
+///
+/// # Examples
+/// ```
+/// use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+/// let r = Response::<f64, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+/// let c = Corrector::try_new(-1.0e-3, 1.0e-3, 1.0)?;
+/// let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+/// let mut s = [0.0];
+/// let out = orbit.try_step(&[[5.0e-3, 0.0]], &mut s)?;
+/// assert!(out.saturated(0) && !out.rate_limited(0) && s[0] == -1.0e-3);
+/// assert!(out.monitor_in_use(0));
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Outcome {
+    state: State,
+    saturated: u64,
+    rate_limited: u64,
+    in_use: u64,
+    decomposed: bool,
+}
+
+impl Outcome {
+    /// Correcting or holding.
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, State, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// let out = orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?;
+    /// assert_eq!(out.state(), State::Correcting);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn state(&self) -> State {
+        self.state
+    }
+
+    /// True when corrector `j` was held at the end of its range.
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// let out = orbit.try_step(&[[0.5, 0.0]], &mut [0.0])?;
+    /// assert!(!out.saturated(0) && !out.saturated(64));
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn saturated(&self, j: usize) -> bool {
+        bit(self.saturated, j)
+    }
+
+    /// True when corrector `j`'s change was cut to its largest step.
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// let c = Corrector::try_new(-1.0, 1.0, 0.1)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// let mut s = [0.0];
+    /// assert!(orbit.try_step(&[[0.5, 0.0]], &mut s)?.rate_limited(0));
+    /// assert_eq!(s, [-0.1]);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn rate_limited(&self, j: usize) -> bool {
+        bit(self.rate_limited, j)
+    }
+
+    /// True when any limit acted.
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// assert!(!orbit.try_step(&[[0.5, 0.0]], &mut [0.0])?.limited());
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn limited(&self) -> bool {
+        self.saturated | self.rate_limited != 0
+    }
+
+    /// True when monitor `i` was used in this iteration's solve.
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// let out = orbit.try_step(&[[f32::NAN, 0.0]], &mut [0.0])?;
+    /// assert!(!out.monitor_in_use(0));
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn monitor_in_use(&self, i: usize) -> bool {
+        bit(self.in_use, i)
+    }
+
+    /// The number of monitors in use.
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// assert_eq!(orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?.monitors_in_use(), 1);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn monitors_in_use(&self) -> u32 {
+        self.in_use.count_ones()
+    }
+
+    /// True when this iteration computed a decomposition (the monitor set, the response or the
+    /// set of held correctors changed).
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// assert!(orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?.decomposed());
+    /// assert!(!orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?.decomposed());
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn decomposed(&self) -> bool {
+        self.decomposed
+    }
+}
+
+const fn bit(mask: u64, i: usize) -> bool {
+    i < 64 && mask & (1 << i) != 0
+}
+
+/// One corrector's column: the readings of both planes, x then y (2M values).
+#[derive(Clone, Copy, Debug, PartialEq)]
+struct Column<T: Real, const M: usize>([[T; M]; 2]);
+
+impl<T: Real, const M: usize> AsRef<[T]> for Column<T, M> {
+    fn as_ref(&self) -> &[T] {
+        self.0.as_flattened()
+    }
+}
+
+impl<T: Real, const M: usize> AsMut<[T]> for Column<T, M> {
+    fn as_mut(&mut self) -> &mut [T] {
+        self.0.as_flattened_mut()
+    }
+}
+
+/// A decomposition's result: settings per metre of reading for a set of free correctors.
+#[derive(Clone, Copy, Debug)]
+struct Gains<T: Real, const M: usize, const C: usize> {
+    /// `gain[j]`: the change of corrector `j`'s setting per metre of each reading (x then y);
+    /// zero for held correctors and dropped monitors.
+    gain: [Column<T, M>; C],
+    /// Which readings corrector `j`'s row uses (so the product skips a plane of zeros).
+    plane: [Plane; C],
+    /// The correctors this was computed for (bit j), or `None` when stale.
+    free: Option<u64>,
+    hold: Option<State>,
+}
+
+impl<T: Real, const M: usize, const C: usize> Gains<T, M, C> {
+    const STALE: Self = Self {
+        gain: [Column([[T::ZERO; M]; 2]); C],
+        plane: [Plane::Both; C],
+        free: None,
+        hold: None,
+    };
+}
+
+/// The steering loop of a line with `M` monitors (each reading x and y) and `C` correctors
+/// (`M, C ≤ 64`), keeping `N` readings per monitor and plane to recognise a stuck one.
+///
+/// Holds the response, the limits, the state of the monitors and the decompositions; no heap.
+/// Its size is about `(5 · 2M · C + C²) · size_of::<T>()` plus the windows: place it in a
+/// `static` on a small stack.
+///
+/// # Examples
+/// ```
+/// use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+/// let r = Response::<f32, 1, 1>::try_new([[[4.0], [0.0]]], [0.5])?;
+/// let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
+/// let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(0.1, 1.0)?], [c], Tuning::try_new(0.5, 0.0, 0.0)?)?;
+/// let mut s = [0.0];
+/// orbit.try_step(&[[2.0e-3, 0.0]], &mut s)?;
+/// assert_eq!(s, [-0.5e-3]); // half of the 1 mT m that cancels 2 mm at 2 m per T m
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Debug)]
+pub struct Orbit<T: Real, const M: usize, const C: usize, const N: usize = 4> {
+    response: Response<T, M, C>,
+    monitors: [Monitor<T>; M],
+    correctors: [Corrector<T>; C],
+    tuning: Tuning<T>,
+    /// Monitors in use (bit i).
+    in_use: u64,
+    windows: [[MovingWindow<T, N>; M]; 2],
+    /// Consecutive iterations in which a corrector that moves reading (p, i) changed.
+    moved: [[u16; M]; 2],
+    /// Correctors that move reading (p, i) (bit j).
+    reach: [[u64; M]; 2],
+    full: Gains<T, M, C>,
+    restricted: Gains<T, M, C>,
+    work: [Column<T, M>; C],
+    v: [[T; C]; C],
+    s: [T; C],
+}
+
+impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> {
+    /// A loop for the line described by `response`, with its monitors, correctors and tuning.
+    /// Every monitor starts in use; the first [`try_step`](Self::try_step) decomposes.
+    ///
+    /// # Errors
+    /// [`Error::CapacityFull`] for more than 64 monitors or correctors, or `N` outside
+    /// `2..=65535`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, orbit::{Corrector, Monitor, Orbit, Response, Tuning}};
+    /// let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// let (m, c, t) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?, Tuning::try_new(1.0, 0.0, 0.0)?);
+    /// assert!(Orbit::<f32, 1, 1, 1>::try_new(r, [m], [c], t).is_err()); // N = 1 cannot see a stuck value
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_new(
+        response: Response<T, M, C>,
+        monitors: [Monitor<T>; M],
+        correctors: [Corrector<T>; C],
+        tuning: Tuning<T>,
+    ) -> Result<Self, Error> {
+        if M > 64 || C > 64 || !(2..=usize::from(u16::MAX)).contains(&N) {
+            return Err(Error::CapacityFull);
+        }
+        let mut orbit = Self {
+            response,
+            monitors,
+            correctors,
+            tuning,
+            in_use: if M == 64 { u64::MAX } else { (1 << M) - 1 },
+            windows: [[MovingWindow::new(); M]; 2],
+            moved: [[0; M]; 2],
+            reach: [[0; M]; 2],
+            full: Gains::STALE,
+            restricted: Gains::STALE,
+            work: [Column([[T::ZERO; M]; 2]); C],
+            v: [[T::ZERO; C]; C],
+            s: [T::ZERO; C],
+        };
+        orbit.set_reach();
+        Ok(orbit)
+    }
+
+    /// The response in use.
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let (m, c, t) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?, Tuning::try_new(1.0, 0.0, 0.0)?);
+    /// let orbit = Orbit::<f32, 1, 1>::try_new(r, [m], [c], t)?;
+    /// assert_eq!(orbit.response(), &r);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn response(&self) -> &Response<T, M, C> {
+        &self.response
+    }
+
+    /// The tuning in use.
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let (m, c) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
+    /// let t = Tuning::try_new(0.3, 0.0, 0.0)?;
+    /// let orbit = Orbit::<f32, 1, 1>::try_new(r, [m], [c], t)?;
+    /// assert_eq!(orbit.tuning().gain(), 0.3);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn tuning(&self) -> &Tuning<T> {
+        &self.tuning
+    }
+
+    /// Sets a new tuning; the next step decomposes again if `α` or the cutoff changed (a new gain
+    /// needs no decomposition).
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let (m, c) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
+    /// # let mut orbit = Orbit::<f32, 1, 1>::try_new(r, [m], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?;
+    /// orbit.set_tuning(Tuning::try_new(0.5, 0.0, 0.0)?);
+    /// assert!(!orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?.decomposed());
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn set_tuning(&mut self, tuning: Tuning<T>) {
+        if tuning.regularisation != self.tuning.regularisation
+            || tuning.cutoff != self.tuning.cutoff
+        {
+            self.invalidate();
+        }
+        self.tuning = tuning;
+    }
+
+    /// True when monitor `i` is in use (not dropped as failed).
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let (m, c) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
+    /// # let mut orbit = Orbit::<f32, 1, 1>::try_new(r, [m], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// assert!(orbit.monitor_in_use(0));
+    /// orbit.try_step(&[[2.0, 0.0]], &mut [0.0])?; // 2 m is outside the monitor's 1 m range
+    /// assert!(!orbit.monitor_in_use(0));
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn monitor_in_use(&self, i: usize) -> bool {
+        bit(self.in_use, i)
+    }
+
+    /// Puts monitor `i` back into use (after a repair); its stuck-detection windows start empty.
+    /// Past the end: nothing happens.
+    ///
+    /// # Examples
+    /// ```
+    /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// # let (m, c) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
+    /// # let mut orbit = Orbit::<f32, 1, 1>::try_new(r, [m], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// orbit.try_step(&[[f32::INFINITY, 0.0]], &mut [0.0])?;
+    /// orbit.restore_monitor(0);
+    /// assert!(orbit.monitor_in_use(0));
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn restore_monitor(&mut self, i: usize) {
+        if i < M && !bit(self.in_use, i) {
+            self.in_use |= 1 << i;
+            for p in 0..2 {
+                if let Some(w) = self.windows.get_mut(p).and_then(|w| w.get_mut(i)) {
+                    w.clear();
+                }
+                if let Some(m) = self.moved.get_mut(p).and_then(|m| m.get_mut(i)) {
+                    *m = 0;
+                }
+            }
+            self.invalidate();
+        }
+    }
+
+    /// Loads the response at a new energy and rescales the set points `settings` by
+    /// `κ_old/κ_new`, so every kick stays the same; a rescaled set point outside its corrector's
+    /// range is held at the limit (bit `j` of the returned mask). The next step decomposes again.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`] for a non-finite setting or a rescaled one that overflows; nothing is
+    /// changed then.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
+    /// let at_1 = Response::<f64, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
+    /// let at_2 = Response::<f64, 1, 1>::try_new([[[1.0], [0.0]]], [0.5])?; // Bρ doubled
+    /// let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
+    /// let mut orbit = Orbit::<f64, 1, 1>::try_new(at_1, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// let mut s = [0.3];
+    /// assert_eq!(orbit.try_set_response(at_2, &mut s)?, 0);
+    /// assert_eq!(s, [0.6]);
+    /// let mut s = [0.7];
+    /// assert_eq!(orbit.try_set_response(at_1, &mut s)?, 0); // back: 0.35
+    /// assert_eq!(orbit.try_set_response(at_2, &mut [0.7])?, 1); // 1.4 is beyond the range
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_set_response(
+        &mut self,
+        response: Response<T, M, C>,
+        settings: &mut [T; C],
+    ) -> Result<u64, Error> {
+        let mut next = *settings;
+        let mut held = 0;
+        for (j, (((s, old), new), c)) in next
+            .iter_mut()
+            .zip(&self.response.kick_per_setting)
+            .zip(&response.kick_per_setting)
+            .zip(&self.correctors)
+            .enumerate()
+        {
+            let scaled = finite(finite(*s)? * (*old / *new))?;
+            *s = scaled.max(c.min).min(c.max);
+            if *s != scaled {
+                held |= 1 << j;
+            }
+        }
+        *settings = next;
+        self.response = response;
+        self.set_reach();
+        self.invalidate();
+        Ok(held)
+    }
+
+    /// One iteration: reads the monitors `readings[i] = [x_i, y_i]` (m, offsets from the wanted
+    /// orbit), drops failed ones, and moves the set points `settings` (T m or V) by the limited
+    /// correction step. A set point found outside its range is first brought to it.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`] for a non-finite setting; [`Error::NotConverged`] or
+    /// [`Error::Overflow`] from a decomposition that failed (not seen in practice). On an error
+    /// the settings are unchanged.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::{Corrector, Monitor, Orbit, Response, State, Tuning};
+    /// // One plane, two monitors, one corrector: least squares over both readings.
+    /// let r = Response::<f64, 2, 1>::try_new([[[1.0, 3.0], [0.0; 2]]], [1.0])?;
+    /// let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
+    /// let m = Monitor::try_new(1.0, 1.0)?;
+    /// let mut orbit = Orbit::<f64, 2, 1>::try_new(r, [m; 2], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// let mut s = [0.0];
+    /// orbit.try_step(&[[1.0e-3, 0.0], [1.0e-3, 0.0]], &mut s)?;
+    /// assert!((s[0] + 4.0e-3 / 10.0).abs() < 1e-18); // −(1·1 + 3·1)/(1² + 3²) mm
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_step(
+        &mut self,
+        readings: &[[T; 2]; M],
+        settings: &mut [T; C],
+    ) -> Result<Outcome, Error> {
+        let mut now = *settings;
+        for (s, c) in now.iter_mut().zip(&self.correctors) {
+            *s = finite(*s)?.max(c.min).min(c.max);
+        }
+        self.watch(readings);
+        let mut decomposed = false;
+        if self.full.free.is_none() {
+            let all = if C == 64 { u64::MAX } else { (1 << C) - 1 };
+            decompose_into(
+                &mut self.full,
+                all,
+                &self.response,
+                &self.monitors,
+                self.in_use,
+                self.tuning,
+                &mut self.work,
+                &mut self.v,
+                &mut self.s,
+            )?;
+            decomposed = true;
+        }
+        let mut outcome = Outcome {
+            state: State::Correcting,
+            saturated: 0,
+            rate_limited: 0,
+            in_use: self.in_use,
+            decomposed,
+        };
+        if let Some(hold) = self.full.hold {
+            outcome.state = hold;
+            self.record_moves(0);
+            return Ok(outcome);
+        }
+        let b = self.used_readings(readings);
+        let g = self.tuning.gain;
+        let mut step = [T::ZERO; C];
+        apply_gains(&self.full, &b, g, &mut step);
+        let mut held = 0_u64;
+        for _ in 0..C {
+            let newly = self.limit(&now, &mut step, &mut outcome, held);
+            if newly == 0 {
+                break;
+            }
+            held |= newly;
+            // The free correctors solve again for what the held ones leave: b' = b + R_L Δs_L / g.
+            let mut rest = b;
+            for (j, ds) in step.iter().enumerate() {
+                if bit(held, j) && *ds != T::ZERO {
+                    add_column(&self.response, j, *ds / g, &mut rest);
+                }
+            }
+            let free = !held & self.full.free.unwrap_or(0);
+            if self.restricted.free != Some(free) {
+                decompose_into(
+                    &mut self.restricted,
+                    free,
+                    &self.response,
+                    &self.monitors,
+                    self.in_use,
+                    self.tuning,
+                    &mut self.work,
+                    &mut self.v,
+                    &mut self.s,
+                )?;
+                outcome.decomposed = true;
+            }
+            let mut free_step = [T::ZERO; C];
+            if self.restricted.hold.is_none() {
+                apply_gains(&self.restricted, &rest, g, &mut free_step);
+            }
+            for (j, (ds, fs)) in step.iter_mut().zip(free_step).enumerate() {
+                if !bit(held, j) {
+                    *ds = fs;
+                }
+            }
+        }
+        let mut moved = 0_u64;
+        for (j, ((s, ds), c)) in now.iter_mut().zip(step).zip(&self.correctors).enumerate() {
+            let next = (*s + ds).max(c.min).min(c.max);
+            if next != *s {
+                moved |= 1 << j;
+            }
+            *s = next;
+        }
+        *settings = now;
+        self.record_moves(moved);
+        Ok(outcome)
+    }
+
+    /// Clips the step of every not-yet-held corrector to its limits; returns the newly held ones.
+    fn limit(&self, now: &[T; C], step: &mut [T; C], outcome: &mut Outcome, held: u64) -> u64 {
+        let mut newly = 0;
+        for (j, ((ds, s), c)) in step.iter_mut().zip(now).zip(&self.correctors).enumerate() {
+            if bit(held, j) {
+                continue;
+            }
+            let (lo_range, hi_range) = (c.min - *s, c.max - *s);
+            let lo = lo_range.max(-c.max_step);
+            let hi = hi_range.min(c.max_step);
+            let wanted = *ds;
+            if wanted > hi {
+                *ds = hi;
+            } else if wanted < lo {
+                *ds = lo;
+            } else {
+                continue;
+            }
+            newly |= 1 << j;
+            if *ds == hi_range || *ds == lo_range {
+                outcome.saturated |= 1 << j;
+            } else {
+                outcome.rate_limited |= 1 << j;
+            }
+        }
+        newly
+    }
+
+    /// The readings of the monitors in use, 0 for the others.
+    fn used_readings(&self, readings: &[[T; 2]; M]) -> Column<T, M> {
+        let mut b = Column([[T::ZERO; M]; 2]);
+        for (p, plane) in b.0.iter_mut().enumerate() {
+            for (i, (x, r)) in plane.iter_mut().zip(readings).enumerate() {
+                if bit(self.in_use, i) {
+                    *x = r.get(p).copied().unwrap_or(T::ZERO);
+                }
+            }
+        }
+        b
+    }
+
+    /// Updates the health of every monitor from its readings; a failed one leaves `in_use`.
+    fn watch(&mut self, readings: &[[T; 2]; M]) {
+        let mut failed = 0_u64;
+        for (p, (windows, moved)) in self.windows.iter_mut().zip(&self.moved).enumerate() {
+            for (i, ((w, reading), (monitor, n_moved))) in windows
+                .iter_mut()
+                .zip(readings)
+                .zip(self.monitors.iter().zip(moved))
+                .enumerate()
+            {
+                if !bit(self.in_use, i) {
+                    continue;
+                }
+                let x = reading.get(p).copied().unwrap_or(T::ZERO);
+                let bad = !x.is_finite()
+                    || x.abs() > monitor.range_m
+                    || w.try_push(x).is_err()
+                    || (w.is_full()
+                        && usize::from(*n_moved) + 1 >= N
+                        && w.try_spread() == Ok(T::ZERO));
+                if bad {
+                    failed |= 1 << i;
+                }
+            }
+        }
+        if failed != 0 {
+            self.in_use &= !failed;
+            self.invalidate();
+        }
+    }
+
+    /// Counts, per reading, the consecutive iterations in which a corrector that moves it changed.
+    fn record_moves(&mut self, moved: u64) {
+        for (counts, reach) in self.moved.iter_mut().zip(&self.reach) {
+            for (n, r) in counts.iter_mut().zip(reach) {
+                *n = if moved & r != 0 {
+                    n.saturating_add(1)
+                } else {
+                    0
+                };
+            }
+        }
+    }
+
+    fn set_reach(&mut self) {
+        let mut reach = [[0_u64; M]; 2];
+        for (j, column) in self.response.per_kick.iter().enumerate() {
+            for (masks, plane) in reach.iter_mut().zip(column) {
+                for (mask, r) in masks.iter_mut().zip(plane) {
+                    if *r != T::ZERO {
+                        *mask |= 1 << j;
+                    }
+                }
+            }
+        }
+        self.reach = reach;
+    }
+
+    fn invalidate(&mut self) {
+        self.full.free = None;
+        self.restricted.free = None;
+    }
+}
+
+/// `step[j] = g Σ_r gain[j][r] b[r]` over the readings the corrector's plane uses.
+fn apply_gains<T: Real, const M: usize, const C: usize>(
+    gains: &Gains<T, M, C>,
+    b: &Column<T, M>,
+    g: T,
+    step: &mut [T; C],
+) {
+    for ((ds, row), plane) in step.iter_mut().zip(&gains.gain).zip(&gains.plane) {
+        let sum = match plane {
+            Plane::X => svd::dot(&row.0[0], &b.0[0], M),
+            Plane::Y => svd::dot(&row.0[1], &b.0[1], M),
+            Plane::Both => svd::dot(row.as_ref(), b.as_ref(), 2 * M),
+        };
+        *ds = g * sum;
+    }
+}
+
+/// `b += R κ_j x` (column j of the response in settings units).
+fn add_column<T: Real, const M: usize, const C: usize>(
+    response: &Response<T, M, C>,
+    j: usize,
+    x: T,
+    b: &mut Column<T, M>,
+) {
+    let (Some(column), Some(k)) = (response.per_kick.get(j), response.kick_per_setting.get(j))
+    else {
+        return;
+    };
+    let kick = *k * x;
+    for (bp, rp) in b.0.iter_mut().zip(column) {
+        for (bi, ri) in bp.iter_mut().zip(rp) {
+            *bi += *ri * kick;
+        }
+    }
+}
+
+/// One block of a decomposition: its correctors, where it sits in the workspace, its rows and
+/// its power-of-two scale.
+#[derive(Clone, Copy)]
+struct Block {
+    plane: Plane,
+    offset: usize,
+    k: usize,
+    rows: usize,
+    scale_exp: i32,
+}
+
+impl Block {
+    const NONE: Self = Self {
+        plane: Plane::Both,
+        offset: 0,
+        k: 0,
+        rows: 0,
+        scale_exp: 0,
+    };
+
+    /// Whether reading plane `p` belongs to the block.
+    fn has_plane(&self, p: usize) -> bool {
+        match self.plane {
+            Plane::X => p == 0,
+            Plane::Y => p == 1,
+            Plane::Both => true,
+        }
+    }
+}
+
+/// Decomposes the weighted response restricted to the correctors `free` and the monitors
+/// `in_use`, plane by plane when no free corrector couples them, and writes the gains. `α` and
+/// the cutoff are relative to the largest singular value over both planes.
+#[allow(clippy::too_many_arguments)]
+fn decompose_into<T: Real, const M: usize, const C: usize>(
+    out: &mut Gains<T, M, C>,
+    free: u64,
+    response: &Response<T, M, C>,
+    monitors: &[Monitor<T>; M],
+    in_use: u64,
+    tuning: Tuning<T>,
+    work: &mut [Column<T, M>; C],
+    v: &mut [[T; C]; C],
+    s: &mut [T; C],
+) -> Result<(), Error> {
+    let mut planes = [Plane::Both; C];
+    let mut coupled = false;
+    for (j, plane) in planes.iter_mut().enumerate() {
+        *plane = response.column_plane(j);
+        coupled |= bit(free, j) && *plane == Plane::Both;
+    }
+    let in_block = |block: &Block, j: usize| {
+        bit(free, j) && (block.plane == Plane::Both || planes.get(j) == Some(&block.plane))
+    };
+    let used = |i: usize, m: &Monitor<T>| bit(in_use, i) && m.weight != T::ZERO;
+    let mut blocks = [Block::NONE; 2];
+    if coupled {
+        blocks[0].plane = Plane::Both;
+    } else {
+        blocks[0].plane = Plane::X;
+        blocks[1].plane = Plane::Y;
+    }
+    // 1. Gather each block's weighted columns into work[offset..offset + k], the readings of the
+    //    monitors in use into rows 0..rows; scale by a power of two (exact) so the sums of squares
+    //    neither overflow nor underflow; decompose.
+    let mut offset = 0;
+    let mut sigma_max = T::ZERO; // over both blocks, unscaled
+    for block in blocks.iter_mut().take(if coupled { 1 } else { 2 }) {
+        block.offset = offset;
+        let mut top = i32::MIN;
+        for (j, column) in response.per_kick.iter().enumerate() {
+            if !in_block(block, j) {
+                continue;
+            }
+            let Some(dst) = work.get_mut(offset + block.k) else {
+                break;
+            };
+            let mut rows = 0;
+            for (p, plane) in column.iter().enumerate() {
+                if !block.has_plane(p) {
+                    continue;
+                }
+                for (i, (r, m)) in plane.iter().zip(monitors).enumerate() {
+                    if !used(i, m) {
+                        continue;
+                    }
+                    let value = *r * m.weight;
+                    if let Some(x) = dst.as_mut().get_mut(rows) {
+                        *x = value;
+                    }
+                    if value != T::ZERO {
+                        top = top.max(value.ilogb());
+                    }
+                    rows += 1;
+                }
+            }
+            block.rows = rows;
+            block.k += 1;
+        }
+        offset += block.k;
+        if block.k == 0 {
+            continue;
+        }
+        block.scale_exp = if top == i32::MIN { 0 } else { top };
+        let end = block.offset + block.k;
+        let cols = work.get_mut(block.offset..end).ok_or(Error::OutOfBounds)?;
+        for column in cols.iter_mut() {
+            for x in column.as_mut().iter_mut().take(block.rows) {
+                *x = x.scalbn(-block.scale_exp);
+            }
+        }
+        let vs = v.get_mut(block.offset..end).ok_or(Error::OutOfBounds)?;
+        let ss = s.get_mut(block.offset..end).ok_or(Error::OutOfBounds)?;
+        svd::try_decompose(cols, block.rows, vs, ss)?;
+        for sigma in ss.iter() {
+            sigma_max = sigma_max.max(sigma.scalbn(block.scale_exp));
+        }
+    }
+    // 2. Rank and hold, then the gains: G[j][r] = −(1/κ_j) Σ_l V[j][l] f_l W[r][l] w_r 2^-e with
+    //    f_l = 1/(σ_l² + (α σ_max)²), in the block's scaled units.
+    let mut gains = [Column([[T::ZERO; M]; 2]); C];
+    let mut hold = None;
+    for block in &blocks {
+        if block.k == 0 {
+            continue;
+        }
+        let end = block.offset + block.k;
+        let cols = work.get(block.offset..end).ok_or(Error::OutOfBounds)?;
+        let vs = v.get(block.offset..end).ok_or(Error::OutOfBounds)?;
+        let ss = s.get(block.offset..end).ok_or(Error::OutOfBounds)?;
+        let alpha = (tuning.regularisation * sigma_max).scalbn(-block.scale_exp);
+        let floor = (tuning.cutoff * sigma_max).scalbn(-block.scale_exp);
+        let mut rank = 0_u8;
+        let mut factors = [T::ZERO; C];
+        for (f, sigma) in factors.iter_mut().zip(ss) {
+            if *sigma > floor && *sigma > T::ZERO {
+                rank = rank.saturating_add(1);
+                *f = T::ONE / (*sigma * *sigma + alpha * alpha);
+            }
+        }
+        if usize::from(rank) < block.k {
+            hold = Some(State::Hold {
+                rank,
+                correctors: u8::try_from(block.k).unwrap_or(u8::MAX),
+            });
+            break;
+        }
+        let mut local = 0;
+        for (j, g) in gains.iter_mut().enumerate() {
+            if !in_block(block, j) {
+                continue;
+            }
+            let kappa = response.kick_per_setting.get(j).copied().unwrap_or(T::ONE);
+            let mut r = 0;
+            for (p, plane) in g.0.iter_mut().enumerate() {
+                if !block.has_plane(p) {
+                    continue;
+                }
+                for (i, (x, m)) in plane.iter_mut().zip(monitors).enumerate() {
+                    if !used(i, m) {
+                        continue;
+                    }
+                    let mut sum = T::ZERO;
+                    for ((vcol, f), wcol) in vs.iter().zip(&factors).zip(cols) {
+                        let vjl = vcol.get(local).copied().unwrap_or(T::ZERO);
+                        let wlr = wcol.as_ref().get(r).copied().unwrap_or(T::ZERO);
+                        sum += vjl * *f * wlr;
+                    }
+                    *x = -(sum * m.weight).scalbn(-block.scale_exp) / kappa;
+                    r += 1;
+                }
+            }
+            local += 1;
+        }
+    }
+    out.gain = gains;
+    out.plane = planes;
+    out.hold = hold;
+    out.free = Some(free);
+    Ok(())
+}
