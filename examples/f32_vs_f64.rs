@@ -59,7 +59,7 @@ fn main() -> ExitCode {
             // Both loops start empty and see the same readings.
             let (mut state32, mut state64) = (LoopState::default(), LoopState::default());
             let sign = f64::from(s.charge()).signum();
-            let Ok(brho) = m.magnetic_rigidity() else {
+            let Ok(brho) = m.try_magnetic_rigidity() else {
                 println!("{name}: no rigidity");
                 return ExitCode::FAILURE;
             };

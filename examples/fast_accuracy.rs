@@ -48,25 +48,25 @@ type Quantity = (
 
 fn main() -> ExitCode {
     let quantities: [Quantity; 5] = [
-        ("beta", |m| Ok(m.beta()), |m| Ok(m.beta()), fast::beta),
+        ("beta", |m| Ok(m.beta()), |m| Ok(m.beta()), fast::try_beta),
         (
             "pc",
             |m| Ok(m.momentum()),
             |m| Ok(m.momentum()),
-            fast::momentum,
+            fast::try_momentum,
         ),
         (
             "brho",
-            Motion::magnetic_rigidity,
-            Motion::magnetic_rigidity,
-            fast::magnetic_rigidity,
+            Motion::try_magnetic_rigidity,
+            Motion::try_magnetic_rigidity,
+            fast::try_magnetic_rigidity,
         ),
-        ("v", |m| Ok(m.speed()), |m| Ok(m.speed()), fast::speed),
+        ("v", |m| Ok(m.speed()), |m| Ok(m.speed()), fast::try_speed),
         (
             "tof",
             |m| Ok(m.flight_time(LENGTH_M)),
             |m| Ok(m.flight_time(f64::from(LENGTH_M))),
-            |s, t| fast::flight_time(s, t, LENGTH_M),
+            |s, t| fast::try_flight_time(s, t, LENGTH_M),
         ),
     ];
     let mut ok = true;

@@ -64,7 +64,7 @@ fn main() -> Result<(), Error> {
     let f_ev = field.three_force(proton.charge(), direction * motion.beta());
     let f_perp = f_ev - direction * f_ev.dot(direction);
     let rho = pc * motion.beta() / f_perp.norm();
-    let rho_magnetic = motion.magnetic_rigidity()? / b_field.z;
+    let rho_magnetic = motion.try_magnetic_rigidity()? / b_field.z;
     println!(
         "bending radius from the force: {rho:.4} m (B rho / B alone: {rho_magnetic:.4} m; the stray E field bends against B)"
     );

@@ -159,7 +159,7 @@ fn run() -> Result<ExitCode, Error> {
             true_ev + READBACK_NOISE_EV * noise.normal()
         };
         let tof_s = beam.flight_time(TOF_BASELINE_M) + TOF_JITTER_S * noise.normal();
-        let centring_t = beam.magnetic_rigidity()? / SPECTROMETER_RADIUS_M
+        let centring_t = beam.try_magnetic_rigidity()? / SPECTROMETER_RADIUS_M
             * (1.0 + FIELD_NOISE * noise.normal());
         let readback = window.check_kinetic_energy(readback_ev);
         let tof = window.check_flight_time(TOF_BASELINE_M, tof_s);

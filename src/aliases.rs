@@ -25,8 +25,6 @@ macro_rules! aliases {
         pub type LorentzTransform = crate::LorentzTransform<$t>;
         #[doc = concat!("[`Particle`](crate::push::Particle) in `", stringify!($t), "`.")]
         pub type Particle = push::Particle<$t>;
-        #[doc = concat!("[`UniformField`](crate::push::UniformField) in `", stringify!($t), "`.")]
-        pub type UniformField = push::UniformField<$t>;
         #[doc = concat!("[`Boris`](crate::push::Boris) in `", stringify!($t), "`.")]
         pub type Boris = push::Boris<$t>;
         #[doc = concat!("[`Vay`](crate::push::Vay) in `", stringify!($t), "`.")]

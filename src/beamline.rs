@@ -18,12 +18,12 @@
 //! | [`Element::Drift`] | `x += L x'`, `y += L y'`; time `+= L √(1 + x'² + y'²) / (βc)` |
 //! | [`Element::MagneticKick`] | slope `+= θ` along the direction, `θ = ±∫B dl / Bρ` (small angle) |
 //! | [`Element::HardEdgeDipole`] | exact circular arc in the horizontal plane over a length `L` of the axis |
-//! | [`Element::AcceleratingGap`] | `T += Q V`; slopes scale by `p_s/p_s'` (transverse momentum kept) |
+//! | [`Element::AcceleratingGap`] | `T += Q V` (the crate's sign convention); slopes scale by `p_s/p_s'` (transverse momentum kept) |
 //! | [`Element::ElectrostaticKick`] | slope `+= θ`, `θ = ±∫E dl / Eρ` (small angle, energy unchanged) |
 //!
 //! # Precision of energy gains
 //! In `f32` a gain below `2⁻²⁵ T` vanishes when added to `T` (an `f32` 1 GeV has a spacing of
-//! 64 eV; published-checks §6). A [`BeamState`] therefore keeps the initial kinetic energy and the
+//! 64 eV). A [`BeamState`] therefore keeps the initial kinetic energy and the
 //! sum of the gains apart, the gains in a compensated (two-sum) pair: a thousand 10 eV gaps on a
 //! 1 GeV proton add exactly 10 keV in `f32` (see the tests). The [`Motion`] used for rigidities
 //! and speeds is rebuilt from the rounded total after each gap, which is as accurate as `f32`
@@ -45,12 +45,12 @@
 //! let proton = Motion::try_from_kinetic_energy(Species::PROTON, 2.0e6)?;
 //! let end = line.try_transport(BeamState::on_axis(proton))?;
 //! // theta = 1e-3 / 0.2046 T m = 4.89 mrad; x = 2 m * theta = 9.78 mm
-//! assert!((end.x() - 2.0 * 1.0e-3 / proton.magnetic_rigidity()?).abs() < 1e-8);
+//! assert!((end.x() - 2.0 * 1.0e-3 / proton.try_magnetic_rigidity()?).abs() < 1e-8);
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
 use crate::compensated::two_sum;
-use crate::{Error, Motion, Real, finite, optics};
+use crate::{Error, Motion, Real, optics, try_finite};
 
 /// The direction of a thin kick in the transverse plane.
 ///
@@ -92,7 +92,7 @@ impl<T: Real> KickDirection<T> {
 
     fn check(self) -> Result<Self, Error> {
         if let Self::Angle(phi) = self {
-            finite(phi)?;
+            try_finite(phi)?;
         }
         Ok(self)
     }
@@ -163,7 +163,7 @@ impl<T: Real> Element<T> {
     pub fn try_check(self) -> Result<Self, Error> {
         match self {
             Self::Drift { length_m } => {
-                if finite(length_m)? < T::ZERO {
+                if try_finite(length_m)? < T::ZERO {
                     return Err(Error::NonPositiveLength);
                 }
             }
@@ -171,23 +171,23 @@ impl<T: Real> Element<T> {
                 integrated_field_tm,
                 direction,
             } => {
-                finite(integrated_field_tm)?;
+                try_finite(integrated_field_tm)?;
                 direction.check()?;
             }
             Self::HardEdgeDipole { field_t, length_m } => {
-                finite(field_t)?;
-                if finite(length_m)? <= T::ZERO {
+                try_finite(field_t)?;
+                if try_finite(length_m)? <= T::ZERO {
                     return Err(Error::NonPositiveLength);
                 }
             }
             Self::AcceleratingGap { voltage_v } => {
-                finite(voltage_v)?;
+                try_finite(voltage_v)?;
             }
             Self::ElectrostaticKick {
                 integrated_field_v,
                 direction,
             } => {
-                finite(integrated_field_v)?;
+                try_finite(integrated_field_v)?;
                 direction.check()?;
             }
         }
@@ -228,7 +228,7 @@ impl<T: Real> Element<T> {
                 direction,
             } => {
                 if integrated_field_tm != T::ZERO {
-                    let theta = optics::kick_angle(&state.motion, integrated_field_tm)?;
+                    let theta = optics::try_kick_angle(&state.motion, integrated_field_tm)?;
                     next.kick(theta, direction);
                 }
             }
@@ -237,10 +237,10 @@ impl<T: Real> Element<T> {
                 direction,
             } => {
                 if integrated_field_v != T::ZERO {
-                    let erho = state.motion.electric_rigidity()?;
+                    let erho = state.motion.try_electric_rigidity()?;
                     let sign = T::ONE.copysign(state.motion.species().charge());
-                    let theta =
-                        finite(sign * integrated_field_v / erho).map_err(|_| Error::Overflow)?;
+                    let theta = try_finite(sign * integrated_field_v / erho)
+                        .map_err(|_| Error::Overflow)?;
                     next.kick(theta, direction);
                 }
             }
@@ -476,7 +476,7 @@ impl<T: Real> BeamState<T> {
     /// use fourforce::beamline::{BeamState, Element};
     /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 1.0e9)?;
     /// let s = Element::Drift { length_m: 10.0 }.try_apply(&BeamState::on_axis(p))?;
-    /// // 3.8120493548822230 ns/m (published-checks §3)
+    /// // 3.8120493548822230 ns/m (mpmath, CODATA 2018)
     /// assert!((s.time() - 38.120_493_548_822_23e-9).abs() < 1e-22);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
@@ -522,7 +522,7 @@ impl<T: Real> BeamState<T> {
     /// `sin α₁ = sin α₀ + k L`, `Δx = L (sin α₀ + sin α₁)/(cos α₀ + cos α₁)`, the horizontal arc
     /// `(α₁ - α₀)/k`, and `y` advances with it at `dy/ds_h = y' cos α₀`.
     fn dipole(&mut self, field_t: T, length_m: T) -> Result<(), Error> {
-        let brho = self.motion.magnetic_rigidity()?;
+        let brho = self.motion.try_magnetic_rigidity()?;
         let sign = T::ONE.copysign(self.motion.species().charge());
         let horizontal = (T::ONE + self.x_slope * self.x_slope).sqrt();
         let total = self.path_per_axis_length();
@@ -548,10 +548,11 @@ impl<T: Real> BeamState<T> {
         Ok(())
     }
 
-    /// Thin gap: `T += Q V`, transverse momentum kept, longitudinal momentum from the new total.
+    /// Thin gap: `T += Q V` ([`optics::try_energy_gain`]), transverse momentum kept,
+    /// longitudinal momentum from the new total.
     fn gap(&mut self, voltage_v: T) -> Result<(), Error> {
         let species = self.motion.species();
-        let delta = species.charge() * voltage_v;
+        let delta = optics::try_energy_gain(species, voltage_v)?;
         let (gain, carry) = two_sum(self.gain, delta + self.gain_carry);
         let kinetic = kinetic_after(self.initial_kinetic, gain, carry);
         if kinetic < T::ZERO {
@@ -741,75 +742,14 @@ impl<T: Real, const N: usize> BeamLine<T, N> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_transport(&self, start: BeamState<T>) -> Result<BeamState<T>, Error> {
-        self.try_transport_with(start, |_, _, _| {})
-    }
-
-    /// The state after element `index` (0-based).
-    ///
-    /// # Errors
-    /// [`Error::OutOfBounds`] if `index ≥ len()`; else as [`try_transport`](Self::try_transport).
-    ///
-    /// # Examples
-    /// ```
-    /// use fourforce::{Motion, Species};
-    /// use fourforce::beamline::{BeamLine, BeamState, Element};
-    /// let line = BeamLine::<f64, 4>::try_from_elements(&[
-    ///     Element::AcceleratingGap { voltage_v: 1.0e6 },
-    ///     Element::AcceleratingGap { voltage_v: 2.0e6 },
-    /// ])?;
-    /// let p = BeamState::on_axis(Motion::try_from_kinetic_energy(Species::PROTON, 0.0)?);
-    /// assert_eq!(line.try_state_after(p, 0)?.kinetic_energy(), 1.0e6);
-    /// assert!(line.try_state_after(p, 2).is_err());
-    /// # Ok::<(), fourforce::Error>(())
-    /// ```
-    pub fn try_state_after(
-        &self,
-        start: BeamState<T>,
-        index: usize,
-    ) -> Result<BeamState<T>, Error> {
-        let head = self.elements.get(..=index).ok_or(Error::OutOfBounds)?;
-        head.iter()
+        self.elements
+            .iter()
             .try_fold(start, |state, element| element.try_apply(&state))
     }
 
-    /// Transports `start` through the line, calling `each(index, element, state_after)` after
-    /// every element; returns the final state.
-    ///
-    /// # Errors
-    /// The first error along the line; `each` has then been called for every element before it.
-    ///
-    /// # Examples
-    /// ```
-    /// use fourforce::{Motion, Species};
-    /// use fourforce::beamline::{BeamLine, BeamState, Element};
-    /// let line = BeamLine::<f32, 4>::try_from_elements(&[
-    ///     Element::Drift { length_m: 1.0 },
-    ///     Element::Drift { length_m: 1.0 },
-    /// ])?;
-    /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 1.0e9)?;
-    /// let mut times = [0.0_f32; 2];
-    /// line.try_transport_with(BeamState::on_axis(p), |i, _, s| times[i] = s.time())?;
-    /// assert!((times[1] / times[0] - 2.0).abs() < 1e-6);
-    /// # Ok::<(), fourforce::Error>(())
-    /// ```
-    pub fn try_transport_with<F>(
-        &self,
-        start: BeamState<T>,
-        mut each: F,
-    ) -> Result<BeamState<T>, Error>
-    where
-        F: FnMut(usize, &Element<T>, &BeamState<T>),
-    {
-        let mut state = start;
-        for (index, element) in self.elements.iter().enumerate() {
-            state = element.try_apply(&state)?;
-            each(index, element, &state);
-        }
-        Ok(state)
-    }
-
     /// An iterator over the states after each element: `Ok((index, state))`, then at most one
-    /// `Err` at the first element that fails, after which it ends.
+    /// `Err` at the first element that fails, after which it ends. For the state after element
+    /// `i`, take `states(start).nth(i)`; to watch every element, loop over it.
     ///
     /// # Examples
     /// ```

@@ -19,7 +19,7 @@
 //! followed by a rotation (the Thomas–Wigner rotation). [`Boost::then`] therefore returns a
 //! [`LorentzTransform`], a general 4×4 transformation `Λ^μ_ν` that applies to vectors,
 //! covectors and fields, inverts exactly (`Λ⁻¹ = g Λᵀ g`), and splits into
-//! [`LorentzTransform::boost_part`] and [`LorentzTransform::rotation_part`] with
+//! [`LorentzTransform::try_boost_part`] and [`LorentzTransform::rotation_part`] with
 //! `Λ = rotation_part · boost_part`.
 //!
 //! # For firmware authors
@@ -424,7 +424,7 @@ impl<T: Real> Boost<T> {
     ///
     /// For boosts along one line it is again a boost (rapidities add); for non-collinear boosts it
     /// is a boost followed by a rotation, which [`LorentzTransform`] holds without splitting it
-    /// (see [`LorentzTransform::boost_part`]).
+    /// (see [`LorentzTransform::try_boost_part`]).
     ///
     /// # Examples
     /// ```
@@ -432,13 +432,13 @@ impl<T: Real> Boost<T> {
     /// let x = ThreeVector::new(1.0_f64, 0.0, 0.0);
     /// let a = Boost::try_from_rapidity(x, 0.25)?;
     /// let b = Boost::try_from_rapidity(x, 0.5)?;
-    /// let ab = a.then(&b).boost_part()?;
+    /// let ab = a.then(&b).try_boost_part()?;
     /// assert!((ab.rapidity() - 0.75).abs() < 1e-15);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
     pub fn then(&self, next: &Self) -> LorentzTransform<T> {
-        next.to_transform().compose(&self.to_transform())
+        self.to_transform().then(&next.to_transform())
     }
 
     /// The boost as a general transformation matrix: `Λ⁰₀ = γ`, `Λ⁰ⱼ = Λʲ₀ = −uⱼ`,
@@ -556,20 +556,25 @@ impl<T: Real> LorentzTransform<T> {
         self.m
     }
 
-    /// The composition "first `other`, then `self`": `Λ_self Λ_other` (64 multiplications).
+    /// The composition "first `self`, then `next`": `Λ_next Λ_self` (64 multiplications), the
+    /// same order as [`Boost::then`].
     ///
     /// # Examples
     /// ```
-    /// use fourforce::{Boost, LorentzTransform, ThreeVector};
+    /// use fourforce::{Boost, FourVector, ThreeVector};
     /// let a = Boost::try_from_beta(ThreeVector::new(0.5_f64, 0.0, 0.0))?.to_transform();
-    /// let one = a.compose(&a.inverse());
+    /// let one = a.then(&a.inverse());
     /// assert!((one.to_matrix()[0][0] - 1.0).abs() < 1e-15);
+    /// let r = Boost::try_from_beta(ThreeVector::new(0.0_f64, 0.3, 0.0))?.to_transform();
+    /// let x = FourVector::new(1.0, 0.5, -0.25, 2.0);
+    /// let d = a.then(&r).apply(x) - r.apply(a.apply(x));
+    /// assert!(d.time.abs() < 1e-15 && d.space.norm() < 1e-15);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
-    pub fn compose(&self, other: &Self) -> Self {
+    pub fn then(&self, next: &Self) -> Self {
         Self {
-            m: mat_mul(&self.m, &other.m),
+            m: mat_mul(&next.m, &self.m),
         }
     }
 
@@ -662,36 +667,36 @@ impl<T: Real> LorentzTransform<T> {
     /// ```
     /// use fourforce::{Boost, ThreeVector};
     /// let b = Boost::try_from_beta(ThreeVector::new(0.2_f64, 0.1, 0.0))?;
-    /// let part = b.to_transform().boost_part()?;
+    /// let part = b.to_transform().try_boost_part()?;
     /// assert!((part.beta() - b.beta()).norm() < 1e-15);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
-    pub fn boost_part(&self) -> Result<Boost<T>, Error> {
+    pub fn try_boost_part(&self) -> Result<Boost<T>, Error> {
         let [[g, a, b, c], _, _, _] = self.m;
         Boost::try_from_four_velocity(FourVector::new(g, -a, -b, -c))
     }
 
     /// The rotation `R = Λ·B⁻¹` of the decomposition `Λ = R·B` (see
-    /// [`boost_part`](Self::boost_part)); for two non-collinear boosts, the Thomas–Wigner
+    /// [`boost_part`](Self::try_boost_part)); for two non-collinear boosts, the Thomas–Wigner
     /// rotation. Its entries are formed by a product that cancels from about `(Λ⁰₀)²` down to 1,
     /// so they carry an absolute error of a few eps × `(Λ⁰₀)²`.
     ///
     /// # Errors
-    /// As [`boost_part`](Self::boost_part).
+    /// As [`boost_part`](Self::try_boost_part).
     ///
     /// # Examples
     /// ```
     /// use fourforce::{Boost, ThreeVector};
     /// let a = Boost::try_from_beta(ThreeVector::new(0.6_f64, 0.0, 0.0))?;
     /// let b = Boost::try_from_beta(ThreeVector::new(0.0_f64, 0.6, 0.0))?;
-    /// let r = a.then(&b).rotation_part()?.to_matrix();
+    /// let r = a.then(&b).try_rotation_part()?.to_matrix();
     /// assert!((r[0][0] - 1.0).abs() < 1e-15);       // leaves time alone
     /// assert!(r[1][2].abs() > 0.05);                // but turns x towards y
     /// # Ok::<(), fourforce::Error>(())
     /// ```
-    pub fn rotation_part(&self) -> Result<Self, Error> {
-        let b = self.boost_part()?;
-        Ok(self.compose(&b.inverse().to_transform()))
+    pub fn try_rotation_part(&self) -> Result<Self, Error> {
+        let b = self.try_boost_part()?;
+        Ok(b.inverse().to_transform().then(self))
     }
 
     /// The largest entry of `Λᵀ g Λ − g`, divided by `(Λ⁰₀)²`: 0 for an exact Lorentz

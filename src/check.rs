@@ -29,7 +29,7 @@
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
-use crate::{Error, Motion, Real, Species, finite, optics};
+use crate::{Error, Motion, Real, Species, try_finite};
 
 /// The outcome of a plausibility check.
 ///
@@ -172,7 +172,11 @@ impl<T: Real> EnergyWindow<T> {
         nominal_ev: T,
         high_ev: T,
     ) -> Result<Self, Error> {
-        let (low, nominal, high) = (finite(low_ev)?, finite(nominal_ev)?, finite(high_ev)?);
+        let (low, nominal, high) = (
+            try_finite(low_ev)?,
+            try_finite(nominal_ev)?,
+            try_finite(high_ev)?,
+        );
         if low < T::ZERO {
             return Err(Error::NegativeEnergy);
         }
@@ -206,11 +210,11 @@ impl<T: Real> EnergyWindow<T> {
         nominal_ev: T,
         relative_tolerance: T,
     ) -> Result<Self, Error> {
-        let tol = finite(relative_tolerance)?;
+        let tol = try_finite(relative_tolerance)?;
         if !(T::ZERO..=T::ONE).contains(&tol) {
             return Err(Error::InvalidRange);
         }
-        let nominal = finite(nominal_ev)?;
+        let nominal = try_finite(nominal_ev)?;
         let high = nominal * (T::ONE + tol);
         if !high.is_finite() {
             return Err(Error::Overflow);
@@ -293,7 +297,7 @@ impl<T: Real> EnergyWindow<T> {
     /// ```
     #[must_use]
     pub fn check_kinetic_energy(&self, t_ev: T) -> Verdict<T> {
-        match finite(t_ev) {
+        match try_finite(t_ev) {
             Ok(t) if t < T::ZERO => Verdict::Impossible(Error::NegativeEnergy),
             Ok(t) => self.classify(t),
             Err(e) => Verdict::Impossible(e),
@@ -317,7 +321,7 @@ impl<T: Real> EnergyWindow<T> {
 
     /// The verdict on a flight time `time_s` (s) over a baseline `baseline_m` (m).
     ///
-    /// The energy comes from [`optics::energy_from_flight_time`] (`c t - L` formed exactly, so
+    /// The energy comes from [`Motion::try_from_flight_time`] (`c t - L` formed exactly, so
     /// a relativistic flight time keeps its information). [`Verdict::Impossible`] with
     /// [`Error::FasterThanLight`] when `c t ≤ L`, [`Error::NonPositiveLength`] for a baseline or
     /// time that is not positive, [`Error::NonFinite`].
@@ -334,7 +338,7 @@ impl<T: Real> EnergyWindow<T> {
     /// ```
     #[must_use]
     pub fn check_flight_time(&self, baseline_m: T, time_s: T) -> Verdict<T> {
-        match optics::energy_from_flight_time(self.species, baseline_m, time_s) {
+        match Motion::try_from_flight_time(self.species, baseline_m, time_s) {
             Ok(motion) => self.check_motion(&motion),
             Err(e) => Verdict::Impossible(e),
         }
@@ -358,7 +362,7 @@ impl<T: Real> EnergyWindow<T> {
     /// ```
     #[must_use]
     pub fn check_centring_field(&self, field_t: T, bending_radius_m: T) -> Verdict<T> {
-        match optics::energy_from_centring_field(self.species, field_t, bending_radius_m) {
+        match centred(self.species, field_t, bending_radius_m) {
             Ok(motion) => self.check_motion(&motion),
             Err(e) => Verdict::Impossible(e),
         }
@@ -384,6 +388,18 @@ impl<T: Real> EnergyWindow<T> {
             }
         }
     }
+}
+
+/// The state a dipole field `B` centres on the radius `ρ`: `Bρ = |B| ρ`.
+fn centred<T: Real>(species: Species<T>, field_t: T, radius_m: T) -> Result<Motion<T>, Error> {
+    let b = try_finite(field_t)?.abs();
+    if b == T::ZERO {
+        return Err(Error::ZeroField);
+    }
+    if try_finite(radius_m)? <= T::ZERO {
+        return Err(Error::NonPositiveLength);
+    }
+    Motion::try_from_magnetic_rigidity(species, b * radius_m)
 }
 
 /// The direction of a reading's drift across a [`MovingWindow`].
@@ -537,7 +553,7 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
     /// assert!(w.is_empty());
     /// ```
     pub fn try_push(&mut self, x: T) -> Result<(), Error> {
-        let x = finite(x)?;
+        let x = try_finite(x)?;
         let Some(slot) = self.values.get_mut(self.next) else {
             return Err(Error::OutOfBounds);
         };
@@ -583,7 +599,7 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             Err(Error::Empty)
         } else {
             // Readings near the largest float can overflow the running sums.
-            finite(self.mean).map_err(|_| Error::Overflow)
+            try_finite(self.mean).map_err(|_| Error::Overflow)
         }
     }
 
@@ -608,8 +624,8 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             n => {
                 let dof = T::from_u32(u32::try_from(n - 1).unwrap_or(u32::MAX));
                 // (`max` would turn a NaN M₂ into 0: check it first.)
-                let m2 = finite(self.m2).map_err(|_| Error::Overflow)?;
-                finite((m2.max(T::ZERO) / dof).sqrt()).map_err(|_| Error::Overflow)
+                let m2 = try_finite(self.m2).map_err(|_| Error::Overflow)?;
+                try_finite((m2.max(T::ZERO) / dof).sqrt()).map_err(|_| Error::Overflow)
             }
         }
     }
@@ -642,7 +658,7 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             sxy += di * (x - self.mean);
             sxx += di * di;
         }
-        finite(sxy / sxx).map_err(|_| Error::Overflow)
+        try_finite(sxy / sxx).map_err(|_| Error::Overflow)
     }
 
     /// The fitted change across the window, `slope · (n - 1)`, in the reading's unit.
@@ -661,7 +677,7 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
     /// ```
     pub fn try_drift(&self) -> Result<T, Error> {
         let span = T::from_u32(u32::try_from(self.len.saturating_sub(1)).unwrap_or(u32::MAX));
-        finite(self.try_slope()? * span).map_err(|_| Error::Overflow)
+        try_finite(self.try_slope()? * span).map_err(|_| Error::Overflow)
     }
 
     /// [`Trend::Rising`] or [`Trend::Falling`] when the drift across the window exceeds
@@ -681,7 +697,7 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_trend(&self, threshold: T) -> Result<Trend, Error> {
-        if finite(threshold)? < T::ZERO {
+        if try_finite(threshold)? < T::ZERO {
             return Err(Error::NegativeMagnitude);
         }
         let drift = self.try_drift()?;

@@ -20,11 +20,11 @@
 //! | function | bound (eps) | bound (relative) |
 //! | --- | --- | --- |
 //! | [`sqrt`] | 14 600 | 1.74e-3 |
-//! | [`momentum`] | 14 600 | 1.74e-3 |
-//! | [`beta`] | 14 600 | 1.74e-3 |
-//! | [`speed`] | 14 600 | 1.74e-3 |
-//! | [`magnetic_rigidity`] | 14 600 | 1.74e-3 |
-//! | [`flight_time`] | 14 600 | 1.74e-3 |
+//! | [`try_momentum`] | 14 600 | 1.74e-3 |
+//! | [`try_beta`] | 14 600 | 1.74e-3 |
+//! | [`try_speed`] | 14 600 | 1.74e-3 |
+//! | [`try_magnetic_rigidity`] | 14 600 | 1.74e-3 |
+//! | [`try_flight_time`] | 14 600 | 1.74e-3 |
 //!
 //! The Lorentz factor needs no square root (`γ = 1 + T/m`): use
 //! [`Motion::gamma`](crate::Motion::gamma).
@@ -33,7 +33,7 @@
 //! ```
 //! use fourforce::{Species, fast};
 //! // A 2 MeV proton: β = 0.065 188 68 (mpmath, 50 digits, CODATA 2018 rest energy).
-//! let beta = fast::beta(Species::<f32>::PROTON, 2.0e6)?;
+//! let beta = fast::try_beta(Species::<f32>::PROTON, 2.0e6)?;
 //! assert!((beta / 0.065_188_68 - 1.0).abs() < 2.0e-3);
 //! # Ok::<(), fourforce::Error>(())
 //! ```
@@ -71,7 +71,7 @@ pub fn sqrt(x: f32) -> f32 {
 /// species with a positive rest energy.
 #[inline]
 fn checked(species: Species<f32>, kinetic_energy_ev: f32) -> Result<(f32, f32), Error> {
-    let t = crate::finite(kinetic_energy_ev)?;
+    let t = crate::try_finite(kinetic_energy_ev)?;
     if t < 0.0 {
         return Err(Error::NegativeEnergy);
     }
@@ -95,12 +95,12 @@ fn checked(species: Species<f32>, kinetic_energy_ev: f32) -> Result<(f32, f32), 
 /// ```
 /// use fourforce::{Species, fast};
 /// // A 1 MeV electron: pc = 1.421 970 MeV (mpmath, 50 digits, CODATA 2018 rest energy).
-/// let pc = fast::momentum(Species::<f32>::ELECTRON, 1.0e6)?;
+/// let pc = fast::try_momentum(Species::<f32>::ELECTRON, 1.0e6)?;
 /// assert!((pc / 1.421_970e6 - 1.0).abs() < 2.0e-3);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[inline]
-pub fn momentum(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Error> {
+pub fn try_momentum(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Error> {
     let (t, m) = checked(species, kinetic_energy_ev)?;
     let pc2 = t * (t + 2.0 * m);
     if !pc2.is_finite() {
@@ -115,18 +115,18 @@ pub fn momentum(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Er
 /// always (`β` rounds to 1 far above the rest energy). At most 1.74e-3 high; 0 at `T = 0`.
 ///
 /// # Errors
-/// As [`momentum`].
+/// As [`try_momentum`].
 ///
 /// # Examples
 /// ```
 /// use fourforce::{Species, fast};
 /// // A 1 MeV electron: β = 0.941 079 (mpmath, 50 digits, CODATA 2018 rest energy).
-/// let b = fast::beta(Species::<f32>::ELECTRON, 1.0e6)?;
+/// let b = fast::try_beta(Species::<f32>::ELECTRON, 1.0e6)?;
 /// assert!((b / 0.941_079 - 1.0).abs() < 2.0e-3 && b <= 1.0);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[inline]
-pub fn beta(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Error> {
+pub fn try_beta(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Error> {
     let (t, m) = checked(species, kinetic_energy_ev)?;
     let e = t + m;
     let ratio = (t / e) * ((t + 2.0 * m) / e);
@@ -138,20 +138,20 @@ pub fn beta(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Error>
 /// At most 1.74e-3 high, never above `c`; 0 at `T = 0`.
 ///
 /// # Errors
-/// As [`momentum`].
+/// As [`try_momentum`].
 ///
 /// # Examples
 /// ```
 /// use fourforce::{Species, fast};
 /// // A 2 MeV proton: v = 1.954 307e7 m/s (mpmath, 50 digits, CODATA 2018 rest energy).
-/// let v = fast::speed(Species::<f32>::PROTON, 2.0e6)?;
+/// let v = fast::try_speed(Species::<f32>::PROTON, 2.0e6)?;
 /// assert!((v / 1.954_307e7 - 1.0).abs() < 2.0e-3);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[inline]
-pub fn speed(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Error> {
+pub fn try_speed(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Error> {
     // (The f32 constant c is 10 m/s short, 3e-8: far below this path's 1.7e-3.)
-    Ok(beta(species, kinetic_energy_ev)? * <f32 as Real>::SPEED_OF_LIGHT)
+    Ok(try_beta(species, kinetic_energy_ev)? * <f32 as Real>::SPEED_OF_LIGHT)
 }
 
 /// Magnetic rigidity `Bρ = pc / (c |Q|)` in T m from the kinetic energy `T` (eV), fast and coarse.
@@ -159,23 +159,23 @@ pub fn speed(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Error
 /// The magnitude, whatever the sign of the charge. At most 1.74e-3 high; 0 at `T = 0`.
 ///
 /// # Errors
-/// As [`momentum`], and [`Error::ZeroCharge`] for a neutral species.
+/// As [`try_momentum`], and [`Error::ZeroCharge`] for a neutral species.
 ///
 /// # Examples
 /// ```
 /// use fourforce::{Species, fast};
 /// // A 2 MeV proton: Bρ = 0.204 458 T m (mpmath, 50 digits, CODATA 2018 rest energy).
-/// let brho = fast::magnetic_rigidity(Species::<f32>::PROTON, 2.0e6)?;
+/// let brho = fast::try_magnetic_rigidity(Species::<f32>::PROTON, 2.0e6)?;
 /// assert!((brho / 0.204_458 - 1.0).abs() < 2.0e-3);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[inline]
-pub fn magnetic_rigidity(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Error> {
+pub fn try_magnetic_rigidity(species: Species<f32>, kinetic_energy_ev: f32) -> Result<f32, Error> {
     let q = species.charge().abs();
     if q == 0.0 {
         return Err(Error::ZeroCharge);
     }
-    let pc = momentum(species, kinetic_energy_ev)?;
+    let pc = try_momentum(species, kinetic_energy_ev)?;
     Ok(pc * <f32 as Real>::INV_SPEED_OF_LIGHT / q)
 }
 
@@ -185,7 +185,7 @@ pub fn magnetic_rigidity(species: Species<f32>, kinetic_energy_ev: f32) -> Resul
 /// At most 1.74e-3 short (β is high), and never shorter than light needs (`β ≤ 1`).
 ///
 /// # Errors
-/// As [`momentum`]; [`Error::NonFinite`] for a non-finite length; [`Error::NonPositiveLength`]
+/// As [`try_momentum`]; [`Error::NonFinite`] for a non-finite length; [`Error::NonPositiveLength`]
 /// for `length_m ≤ 0`; [`Error::Overflow`] when the time does not fit in `f32`, which includes
 /// `T = 0` (the particle never arrives).
 ///
@@ -193,21 +193,21 @@ pub fn magnetic_rigidity(species: Species<f32>, kinetic_energy_ev: f32) -> Resul
 /// ```
 /// use fourforce::{Species, fast};
 /// // A 2 MeV proton over 1.5 m: t = 76.754 ns (mpmath, 50 digits, CODATA 2018 rest energy).
-/// let t = fast::flight_time(Species::<f32>::PROTON, 2.0e6, 1.5)?;
+/// let t = fast::try_flight_time(Species::<f32>::PROTON, 2.0e6, 1.5)?;
 /// assert!((t / 76.754e-9 - 1.0).abs() < 2.0e-3);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[inline]
-pub fn flight_time(
+pub fn try_flight_time(
     species: Species<f32>,
     kinetic_energy_ev: f32,
     length_m: f32,
 ) -> Result<f32, Error> {
-    let length = crate::finite(length_m)?;
+    let length = crate::try_finite(length_m)?;
     if length <= 0.0 {
         return Err(Error::NonPositiveLength);
     }
-    let b = beta(species, kinetic_energy_ev)?;
+    let b = try_beta(species, kinetic_energy_ev)?;
     let t = length * <f32 as Real>::INV_SPEED_OF_LIGHT / b;
     if t.is_finite() {
         Ok(t)

@@ -38,7 +38,7 @@
 //! let f = FieldTensor::try_from_fields(ThreeVector::new(0.0_f64, 1e5, 0.0), ThreeVector::new(0.0, 0.0, 0.01))?;
 //! assert_eq!(f.e().y, 1e5);
 //! assert!((f.b().z - 0.01).abs() < 1e-17);
-//! assert_eq!(f.component(2, 0)?, 1e5); // c F^{20} = E_y
+//! assert_eq!(f.try_component(2, 0)?, 1e5); // c F^{20} = E_y
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
@@ -55,7 +55,7 @@ use crate::{Covector, Error, FourVector, Real, ThreeVector};
 /// use fourforce::{FieldTensor, ThreeVector};
 /// // An invented deflector: 2 MV/m along y, no magnetic field.
 /// let f = FieldTensor::try_from_fields(ThreeVector::new(0.0_f32, 2e6, 0.0), ThreeVector::ZERO)?;
-/// assert_eq!(f.component(0, 2)?, -2e6);
+/// assert_eq!(f.try_component(0, 2)?, -2e6);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Copy, Debug, Default, PartialEq)]
@@ -73,7 +73,7 @@ pub struct FieldTensor<T: Real> {
 /// use fourforce::{FieldTensor, ThreeVector};
 /// let f = FieldTensor::try_from_fields(ThreeVector::new(1.0_f32, 0.0, 0.0), ThreeVector::ZERO)?;
 /// let low = f.lower();
-/// assert_eq!(low.component(0, 1)?, -f.component(0, 1)?);
+/// assert_eq!(low.try_component(0, 1)?, -f.try_component(0, 1)?);
 /// assert_eq!(low.raise(), f);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
@@ -272,12 +272,12 @@ impl<T: Real> FieldTensor<T> {
     /// ```
     /// use fourforce::{FieldTensor, ThreeVector};
     /// let f = FieldTensor::try_from_scaled(ThreeVector::new(1.0_f32, 2.0, 3.0), ThreeVector::new(4.0, 5.0, 6.0))?;
-    /// assert_eq!(f.component(1, 0)?, 1.0);  // E_x
-    /// assert_eq!(f.component(1, 2)?, -6.0); // −cB_z
-    /// assert_eq!(f.component(2, 1)?, 6.0);  // antisymmetric
+    /// assert_eq!(f.try_component(1, 0)?, 1.0);  // E_x
+    /// assert_eq!(f.try_component(1, 2)?, -6.0); // −cB_z
+    /// assert_eq!(f.try_component(2, 1)?, 6.0);  // antisymmetric
     /// # Ok::<(), fourforce::Error>(())
     /// ```
-    pub fn component(&self, mu: usize, nu: usize) -> Result<T, Error> {
+    pub fn try_component(&self, mu: usize, nu: usize) -> Result<T, Error> {
         entry(&self.to_matrix(), mu, nu)
     }
 
@@ -364,8 +364,8 @@ impl<T: Real> FieldTensor<T> {
     /// ```
     /// use fourforce::{FieldTensor, ThreeVector};
     /// let f = FieldTensor::try_from_scaled(ThreeVector::new(1.0_f32, 0.0, 0.0), ThreeVector::new(0.0, 2.0, 0.0))?;
-    /// assert_eq!(f.lower().component(1, 0)?, -1.0);
-    /// assert_eq!(f.lower().component(1, 3)?, 2.0);
+    /// assert_eq!(f.lower().try_component(1, 0)?, -1.0);
+    /// assert_eq!(f.lower().try_component(1, 3)?, 2.0);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
@@ -591,10 +591,10 @@ impl<T: Real> CovariantFieldTensor<T> {
     /// ```
     /// use fourforce::{FieldTensor, ThreeVector};
     /// let f = FieldTensor::try_from_scaled(ThreeVector::new(1.0_f32, 0.0, 0.0), ThreeVector::ZERO)?;
-    /// assert_eq!(f.lower().component(0, 1)?, 1.0); // c F_{01} = E_x
+    /// assert_eq!(f.lower().try_component(0, 1)?, 1.0); // c F_{01} = E_x
     /// # Ok::<(), fourforce::Error>(())
     /// ```
-    pub fn component(&self, mu: usize, nu: usize) -> Result<T, Error> {
+    pub fn try_component(&self, mu: usize, nu: usize) -> Result<T, Error> {
         entry(&self.to_matrix(), mu, nu)
     }
 
@@ -743,11 +743,14 @@ mod tests {
         );
         for mu in 0..4 {
             for nu in 0..4 {
-                assert_eq!(f.component(mu, nu).unwrap(), -f.component(nu, mu).unwrap());
+                assert_eq!(
+                    f.try_component(mu, nu).unwrap(),
+                    -f.try_component(nu, mu).unwrap()
+                );
             }
         }
-        assert_eq!(f.component(4, 0), Err(Error::OutOfBounds));
-        assert_eq!(f.lower().component(0, 9), Err(Error::OutOfBounds));
+        assert_eq!(f.try_component(4, 0), Err(Error::OutOfBounds));
+        assert_eq!(f.lower().try_component(0, 9), Err(Error::OutOfBounds));
     }
 
     #[test]

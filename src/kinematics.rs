@@ -45,15 +45,15 @@
 //! use fourforce::{Motion, Species};
 //! // A 250 MeV proton of an invented therapy line: B rho = 2.4321284387 T m (mpmath, CODATA 2018).
 //! let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 250.0e6)?;
-//! assert!((p.magnetic_rigidity()? / 2.432_128_4 - 1.0).abs() < 4.0 * f32::EPSILON);
+//! assert!((p.try_magnetic_rigidity()? / 2.432_128_4 - 1.0).abs() < 4.0 * f32::EPSILON);
 //! // The same state from the rigidity the magnet was set to.
-//! let q = Motion::try_from_magnetic_rigidity(Species::<f32>::PROTON, p.magnetic_rigidity()?)?;
+//! let q = Motion::try_from_magnetic_rigidity(Species::<f32>::PROTON, p.try_magnetic_rigidity()?)?;
 //! assert!((q.kinetic_energy() / 250.0e6 - 1.0).abs() < 8.0 * f32::EPSILON);
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
 use crate::compensated::two_prod;
-use crate::{Error, Real, Species};
+use crate::{Error, FourVector, Real, Species, ThreeVector};
 
 /// The state of motion of one particle of a [`Species`]: kinetic energy and everything derived.
 ///
@@ -175,7 +175,7 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_kinetic_energy(species: Species<T>, kinetic_ev: T) -> Result<Self, Error> {
-        let t = unsigned_zero(crate::finite(kinetic_ev)?);
+        let t = unsigned_zero(crate::try_finite(kinetic_ev)?);
         if t < T::ZERO {
             return Err(Error::NegativeEnergy);
         }
@@ -215,7 +215,7 @@ impl<T: Real> Motion<T> {
     /// ```
     pub fn try_from_kinetic_energy_kev(species: Species<T>, kinetic_kev: T) -> Result<Self, Error> {
         // A finite energy whose eV value overflows is too large, not non-finite.
-        let t = crate::finite(kinetic_kev)?;
+        let t = crate::try_finite(kinetic_kev)?;
         Self::try_from_kinetic_energy(species, fits(t * T::from_f64(1.0e3))?)
     }
 
@@ -237,7 +237,7 @@ impl<T: Real> Motion<T> {
     /// ```
     pub fn try_from_kinetic_energy_mev(species: Species<T>, kinetic_mev: T) -> Result<Self, Error> {
         // A finite energy whose eV value overflows is too large, not non-finite.
-        let t = crate::finite(kinetic_mev)?;
+        let t = crate::try_finite(kinetic_mev)?;
         Self::try_from_kinetic_energy(species, fits(t * T::from_f64(1.0e6))?)
     }
 
@@ -260,7 +260,7 @@ impl<T: Real> Motion<T> {
     /// ```
     pub fn try_from_kinetic_energy_gev(species: Species<T>, kinetic_gev: T) -> Result<Self, Error> {
         // A finite energy whose eV value overflows is too large, not non-finite.
-        let t = crate::finite(kinetic_gev)?;
+        let t = crate::try_finite(kinetic_gev)?;
         Self::try_from_kinetic_energy(species, fits(t * T::from_f64(1.0e9))?)
     }
 
@@ -292,7 +292,7 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_total_energy(species: Species<T>, total_ev: T) -> Result<Self, Error> {
-        let e = crate::finite(total_ev)?;
+        let e = crate::try_finite(total_ev)?;
         let m = species.rest_energy();
         if e < m {
             return Err(Error::BelowRestEnergy);
@@ -324,7 +324,7 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_gamma(species: Species<T>, gamma: T) -> Result<Self, Error> {
-        let g = crate::finite(gamma)?;
+        let g = crate::try_finite(gamma)?;
         if g < T::ONE {
             return Err(Error::BelowRestEnergy);
         }
@@ -364,7 +364,7 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_beta(species: Species<T>, beta: T) -> Result<Self, Error> {
-        let b = unsigned_zero(crate::finite(beta)?);
+        let b = unsigned_zero(crate::try_finite(beta)?);
         if b < T::ZERO {
             return Err(Error::NegativeMagnitude);
         }
@@ -438,7 +438,7 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_beta_gamma(species: Species<T>, beta_gamma: T) -> Result<Self, Error> {
-        let bg = unsigned_zero(crate::finite(beta_gamma)?);
+        let bg = unsigned_zero(crate::try_finite(beta_gamma)?);
         if bg < T::ZERO {
             return Err(Error::NegativeMagnitude);
         }
@@ -466,11 +466,11 @@ impl<T: Real> Motion<T> {
     /// use fourforce::{Motion, Species};
     /// // A proton of momentum exactly 7 TeV/c: B rho = 23349.486663870643 T m (mpmath, CODATA 2018).
     /// let p = Motion::try_from_momentum(Species::<f64>::PROTON, 7.0e12)?;
-    /// assert!((p.magnetic_rigidity()? / 23_349.486_663_870_643 - 1.0).abs() < 4e-16);
+    /// assert!((p.try_magnetic_rigidity()? / 23_349.486_663_870_643 - 1.0).abs() < 4e-16);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_momentum(species: Species<T>, momentum_ev: T) -> Result<Self, Error> {
-        let pc = unsigned_zero(crate::finite(momentum_ev)?);
+        let pc = unsigned_zero(crate::try_finite(momentum_ev)?);
         if pc < T::ZERO {
             return Err(Error::NegativeMagnitude);
         }
@@ -526,7 +526,7 @@ impl<T: Real> Motion<T> {
         species: Species<T>,
         momentum_kg_m_per_s: T,
     ) -> Result<Self, Error> {
-        let p = crate::finite(momentum_kg_m_per_s)?;
+        let p = crate::try_finite(momentum_kg_m_per_s)?;
         // c / e in (eV/c) per (kg m/s), from exact c and e (SI 2019), mpmath 50 digits.
         Self::try_from_momentum(species, fits(p * T::from_f64(1.871_157_347_061_897_0e27))?)
     }
@@ -554,7 +554,7 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_magnetic_rigidity(species: Species<T>, brho_tm: T) -> Result<Self, Error> {
-        let brho = crate::finite(brho_tm)?;
+        let brho = crate::try_finite(brho_tm)?;
         let q = nonzero_charge(species)?;
         if brho < T::ZERO {
             return Err(Error::NegativeMagnitude);
@@ -589,7 +589,7 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_electric_rigidity(species: Species<T>, erho_v: T) -> Result<Self, Error> {
-        let erho = unsigned_zero(crate::finite(erho_v)?);
+        let erho = unsigned_zero(crate::try_finite(erho_v)?);
         let q = nonzero_charge(species)?;
         if erho < T::ZERO {
             return Err(Error::NegativeMagnitude);
@@ -633,7 +633,7 @@ impl<T: Real> Motion<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_from_speed(species: Species<T>, speed_m_per_s: T) -> Result<Self, Error> {
-        let v = unsigned_zero(crate::finite(speed_m_per_s)?);
+        let v = unsigned_zero(crate::try_finite(speed_m_per_s)?);
         if v < T::ZERO {
             return Err(Error::NegativeMagnitude);
         }
@@ -682,8 +682,8 @@ impl<T: Real> Motion<T> {
         length_m: T,
         time_s: T,
     ) -> Result<Self, Error> {
-        let l = crate::finite(length_m)?;
-        let t = crate::finite(time_s)?;
+        let l = crate::try_finite(length_m)?;
+        let t = crate::try_finite(time_s)?;
         if l <= T::ZERO || t <= T::ZERO {
             return Err(Error::NonPositiveLength);
         }
@@ -898,6 +898,30 @@ impl<T: Real> Motion<T> {
         self.beta_gamma
     }
 
+    /// The four-velocity `u = (γ, βγ n̂)` in units of c of this state moving along `direction`
+    /// (any length; `n̂ = direction/|direction|`).
+    ///
+    /// `γ` and `βγ` are the state's own (within the bound of [Precision](self#precision)); the
+    /// unit vector adds one rounding to each spatial component.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`] for a non-finite direction; [`Error::ZeroDirection`] for a zero one
+    /// (also at rest: a direction is always required).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{FourVector, Motion, Species, ThreeVector};
+    /// let p = Motion::try_from_gamma(Species::<f64>::PROTON, 1.25)?;
+    /// let u = p.try_four_velocity(ThreeVector::new(0.0, 0.0, 3.0))?;
+    /// assert_eq!(u, FourVector::new(1.25, 0.0, 0.0, p.beta_gamma()));
+    /// assert!((u.norm_squared() - 1.0).abs() < 4.0 * f64::EPSILON);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_four_velocity(&self, direction: ThreeVector<T>) -> Result<FourVector<T>, Error> {
+        let n = direction.try_unit()?;
+        Ok(FourVector::from_parts(self.gamma, n * self.beta_gamma))
+    }
+
     /// Momentum as `pc` in eV (so the momentum in eV/c): `√(T(T + 2m))`.
     ///
     /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
@@ -1037,10 +1061,10 @@ impl<T: Real> Motion<T> {
     /// use fourforce::{Motion, Species};
     /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 7.0e12)?;
     /// // 23352.616192946796 T m (mpmath, CODATA 2018)
-    /// assert!((p.magnetic_rigidity()? / 23_352.616_192_946_796 - 1.0).abs() < 4e-16);
+    /// assert!((p.try_magnetic_rigidity()? / 23_352.616_192_946_796 - 1.0).abs() < 4e-16);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
-    pub fn magnetic_rigidity(&self) -> Result<T, Error> {
+    pub fn try_magnetic_rigidity(&self) -> Result<T, Error> {
         let q = nonzero_charge(self.species)?;
         // `fits`: a charge far below e can put the rigidity beyond the precision.
         fits(over_c(self.momentum / q))
@@ -1063,10 +1087,10 @@ impl<T: Real> Motion<T> {
     /// use fourforce::{Motion, Species};
     /// let e = Motion::try_from_kinetic_energy(Species::<f64>::ELECTRON, 1.0)?;
     /// // 1.9999980430526461 V (mpmath, CODATA 2018)
-    /// assert!((e.electric_rigidity()? - 1.999_998_043_052_646_1).abs() < 1e-15);
+    /// assert!((e.try_electric_rigidity()? - 1.999_998_043_052_646_1).abs() < 1e-15);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
-    pub fn electric_rigidity(&self) -> Result<T, Error> {
+    pub fn try_electric_rigidity(&self) -> Result<T, Error> {
         let q = nonzero_charge(self.species)?;
         let m = self.species.rest_energy();
         let t = self.kinetic;

@@ -14,6 +14,16 @@
 //!   momenta in eV (`pc` for momentum), speeds as β, fields in V/m (E and cB), lengths in m.
 //!   SI is offered at the boundary (N, kg m/s, T, s).
 //! - Charge `Q` in units of the elementary charge, with sign; angles in radians.
+//! - Energy gains from voltages: a voltage `V` (a gap, an electrode pair, a potential step, taken
+//!   in the direction of travel) gives a particle of charge `Q` the kinetic energy `ΔT = Q·V` in
+//!   eV; `V > 0` accelerates positive charges. Every function that takes a voltage uses this sign
+//!   ([`optics::try_energy_gain`], [`beamline::Element::AcceleratingGap`]).
+//! - Units in names: the crate's base units are eV (every energy, and momentum as `pc`), m, s,
+//!   rad, T, T·m, V, V/m and m/s; a method named after a quantity returns it in its base unit
+//!   with no suffix, and carries a suffix for any other unit (`_kev`, `_mev`, `_gev`, `_si` for
+//!   kg·m/s, `_newtons`, `_watts`). "Momentum" always means `pc` in eV; the dimensionless `γβ` is
+//!   called `beta_gamma`. Arguments name their unit (`length_m`, `field_t`, `voltage_v`).
+//! - Fallible functions are named `try_…` and return `Result<_, Error>`; no other function is.
 //! - Constants: CODATA 2018 (see [`consts`]), rounded once to the working precision.
 //!
 //! # Errors and edges
@@ -99,7 +109,7 @@ mod svd;
 pub mod fast;
 
 pub use error::Error;
-pub use real::{MaybeFormat, Real, finite};
+pub use real::{MaybeFormat, Real, try_finite};
 pub use species::Species;
 pub use vector::ThreeVector;
 

@@ -7,23 +7,24 @@
 //!
 //! | function | formula | result |
 //! | --- | --- | --- |
-//! | [`bending_radius`] | `ρ = Bρ/|B|` | m |
-//! | [`electric_bending_radius`] | `ρ = Eρ/|E|` | m |
-//! | [`revolution_frequency`] | `f = |Q| c² |B| / (2π E)` | Hz |
-//! | [`lag_behind_light`] | `L (1 − β)/(β c)` | s |
-//! | [`flight_time_difference`] | `L/c ((1 − β_a)/β_a − (1 − β_b)/β_b)` | s |
-//! | [`energy_gain`] | `ΔT = −Q Δφ` | eV |
-//! | [`after_potential_difference`] | the state after crossing `Δφ` | [`Motion`] |
-//! | [`kick_angle`] | `θ = ±∫B dl / Bρ` (thin, small angle) | rad |
-//! | [`kick_angle_hard_edge`] | `sin θ = ±L B / Bρ` | rad |
-//! | [`integrated_field_for_angle`] | `∫B dl = ±θ Bρ` | T m |
-//! | [`field_for_angle_hard_edge`] | `B = ±Bρ sin θ / L` | T |
-//! | [`electrostatic_kick_angle`] | `θ = ±E L / Eρ` | rad |
-//! | [`deflector_field_for_angle`] | `E = ±θ Eρ / L` | V/m |
-//! | [`energy_from_flight_time`] | from `t` over a baseline `L` | [`Motion`] |
-//! | [`energy_from_centring_field`] | `Bρ = B ρ` | [`Motion`] |
-//! | [`energy_from_dipole`] | `Bρ = B L / sin θ` (hard edge) | [`Motion`] |
-//! | [`energy_from_deflector`] | `Eρ = E ρ` | [`Motion`] |
+//! | [`try_bending_radius`] | `ρ = Bρ/|B|` | m |
+//! | [`try_electric_bending_radius`] | `ρ = Eρ/|E|` | m |
+//! | [`try_revolution_frequency`] | `f = |Q| c² |B| / (2π E)` | Hz |
+//! | [`try_lag_behind_light`] | `L (1 − β)/(β c)` | s |
+//! | [`try_flight_time_difference`] | `L/c ((1 − β_a)/β_a − (1 − β_b)/β_b)` | s |
+//! | [`try_energy_gain`] | `ΔT = Q V` | eV |
+//! | [`try_after_voltage`] | the state after a voltage `V` | [`Motion`] |
+//! | [`try_kick_angle`] | `θ = ±∫B dl / Bρ` (thin, small angle) | rad |
+//! | [`try_kick_angle_hard_edge`] | `sin θ = ±L B / Bρ` | rad |
+//! | [`try_integrated_field_for_angle`] | `∫B dl = ±θ Bρ` | T m |
+//! | [`try_field_for_angle_hard_edge`] | `B = ±Bρ sin θ / L` | T |
+//! | [`try_electrostatic_kick_angle`] | `θ = ±E L / Eρ` | rad |
+//! | [`try_deflector_field_for_angle`] | `E = ±θ Eρ / L` | V/m |
+//! | [`try_motion_from_dipole`] | `Bρ = B L / sin θ` (hard edge) | [`Motion`] |
+//!
+//! A state from a time of flight, a rigidity `Bρ = |B| ρ` or `Eρ = |E| ρ` is a [`Motion`]
+//! constructor ([`Motion::try_from_flight_time`], [`Motion::try_from_magnetic_rigidity`],
+//! [`Motion::try_from_electric_rigidity`]).
 //!
 //! # Signs
 //! Magnitudes (radii, rigidities, frequencies) are positive. Angles and fields carry a sign: a
@@ -34,7 +35,7 @@
 //! # Accuracy
 //! Each function adds a few roundings to the accessor it reads (see [`Motion`]): within 2 eps
 //! for the products and quotients, plus `libm`'s `asin`/`sin` (about 1 ulp) for the hard-edge
-//! forms. [`flight_time_difference`] is exact up to those roundings relative to each term: it
+//! forms. [`try_flight_time_difference`] is exact up to those roundings relative to each term: it
 //! never subtracts two large flight times; a difference of two nearly equal states is
 //! conditioned by how close they are, as it must be.
 //!
@@ -47,15 +48,15 @@
 //! use fourforce::{optics, Motion, Species};
 //! // An invented 2 MeV deuteron line: a 0.5 T dipole bends it on a radius of 0.578 m.
 //! let d = Motion::try_from_kinetic_energy(Species::<f32>::DEUTERON, 2.0e6)?;
-//! let rho = optics::bending_radius(&d, 0.5)?;
+//! let rho = optics::try_bending_radius(&d, 0.5)?;
 //! assert!((rho / 0.577_998_4 - 1.0).abs() < 1e-6); // B rho 0.28899920385644361 T m (mpmath)
-//! // The field that centres the beam on that radius gives back the energy.
-//! let back = optics::energy_from_centring_field(Species::<f32>::DEUTERON, 0.5, rho)?;
+//! // The rigidity of the field that centres the beam on that radius gives back the energy.
+//! let back = Motion::try_from_magnetic_rigidity(Species::<f32>::DEUTERON, 0.5 * rho)?;
 //! assert!((back.kinetic_energy() / 2.0e6 - 1.0).abs() < 1e-6);
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
-use crate::{Error, Motion, Real, Species, finite};
+use crate::{Error, Motion, Real, Species, try_finite};
 
 /// `c²/(2π)` in Hz eV per (T e): the revolution frequency factor, mpmath 50 digits from exact c.
 const C2_OVER_TWO_PI: f64 = 14_304_132_932_540_443.241_963_75;
@@ -63,7 +64,7 @@ const C2_OVER_TWO_PI: f64 = 14_304_132_932_540_443.241_963_75;
 /// `|B|` or [`Error::ZeroField`] / [`Error::NonFinite`].
 #[inline]
 fn nonzero_field<T: Real>(field: T) -> Result<T, Error> {
-    let f = finite(field)?.abs();
+    let f = try_finite(field)?.abs();
     if f == T::ZERO {
         Err(Error::ZeroField)
     } else {
@@ -74,7 +75,7 @@ fn nonzero_field<T: Real>(field: T) -> Result<T, Error> {
 /// A length that must be positive and finite.
 #[inline]
 fn positive_length<T: Real>(length: T) -> Result<T, Error> {
-    let l = finite(length)?;
+    let l = try_finite(length)?;
     if l <= T::ZERO {
         Err(Error::NonPositiveLength)
     } else {
@@ -99,13 +100,13 @@ fn charge_sign<T: Real>(motion: &Motion<T>) -> T {
 /// use fourforce::{optics, Motion, Species};
 /// // 10 MeV proton in 1 T: 0.458155375777 m (published-checks §7.1, mpmath).
 /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 10.0e6)?;
-/// assert!((optics::bending_radius(&p, 1.0)? / 0.458_155_375_777 - 1.0).abs() < 1e-11);
+/// assert!((optics::try_bending_radius(&p, 1.0)? / 0.458_155_375_777 - 1.0).abs() < 1e-11);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn bending_radius<T: Real>(motion: &Motion<T>, field_t: T) -> Result<T, Error> {
+pub fn try_bending_radius<T: Real>(motion: &Motion<T>, field_t: T) -> Result<T, Error> {
     let b = nonzero_field(field_t)?;
-    let brho = motion.magnetic_rigidity()?;
-    finite(brho / b).map_err(|_| Error::Overflow)
+    let brho = motion.try_magnetic_rigidity()?;
+    try_finite(brho / b).map_err(|_| Error::Overflow)
 }
 
 /// Bending radius in a transverse electric field: `ρ = Eρ/|E|` in m.
@@ -119,14 +120,17 @@ pub fn bending_radius<T: Real>(motion: &Motion<T>, field_t: T) -> Result<T, Erro
 /// use fourforce::{optics, Motion, Species};
 /// // A 10 keV electron (E rho = 19808.061 V, mpmath) in 20 kV/m bends on 0.99 m.
 /// let e = Motion::try_from_kinetic_energy(Species::<f64>::ELECTRON, 10.0e3)?;
-/// let rho = optics::electric_bending_radius(&e, 20.0e3)?;
+/// let rho = optics::try_electric_bending_radius(&e, 20.0e3)?;
 /// assert!((rho - 0.990_403_051_676_015_85).abs() < 1e-14);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn electric_bending_radius<T: Real>(motion: &Motion<T>, field_v_per_m: T) -> Result<T, Error> {
+pub fn try_electric_bending_radius<T: Real>(
+    motion: &Motion<T>,
+    field_v_per_m: T,
+) -> Result<T, Error> {
     let e = nonzero_field(field_v_per_m)?;
-    let erho = motion.electric_rigidity()?;
-    finite(erho / e).map_err(|_| Error::Overflow)
+    let erho = motion.try_electric_rigidity()?;
+    try_finite(erho / e).map_err(|_| Error::Overflow)
 }
 
 /// Revolution (cyclotron) frequency in a magnetic field, `f = |Q| c² |B| / (2π E)` in Hz.
@@ -143,17 +147,17 @@ pub fn electric_bending_radius<T: Real>(motion: &Motion<T>, field_v_per_m: T) ->
 /// use fourforce::{optics, Motion, Species};
 /// // Proton at rest, 1 T: 15245186.4582 Hz (published-checks §2, mpmath, CODATA 2018).
 /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 0.0)?;
-/// assert!((optics::revolution_frequency(&p, 1.0)? / 15_245_186.458_2 - 1.0).abs() < 1e-11);
+/// assert!((optics::try_revolution_frequency(&p, 1.0)? / 15_245_186.458_2 - 1.0).abs() < 1e-11);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn revolution_frequency<T: Real>(motion: &Motion<T>, field_t: T) -> Result<T, Error> {
+pub fn try_revolution_frequency<T: Real>(motion: &Motion<T>, field_t: T) -> Result<T, Error> {
     let b = nonzero_field(field_t)?;
     let q = motion.species().charge().abs();
     if q == T::ZERO {
         return Err(Error::ZeroCharge);
     }
     let per_tesla = (T::from_f64(C2_OVER_TWO_PI) / motion.total_energy()) * q;
-    finite(per_tesla * b).map_err(|_| Error::Overflow)
+    try_finite(per_tesla * b).map_err(|_| Error::Overflow)
 }
 
 /// How long the particle trails a light signal over `length_m`: `L (1 − β)/(β c)` in s.
@@ -170,13 +174,13 @@ pub fn revolution_frequency<T: Real>(motion: &Motion<T>, field_t: T) -> Result<T
 /// use fourforce::{optics, Motion, Species};
 /// let e = Motion::try_from_kinetic_energy(Species::<f32>::ELECTRON, 1.0e10)?;
 /// // 4.354566569e-16 s (published-checks §6, mpmath)
-/// assert!((optics::lag_behind_light(&e, 100.0)? / 4.354_566_6e-16 - 1.0).abs() < 8.0 * f32::EPSILON);
+/// assert!((optics::try_lag_behind_light(&e, 100.0)? / 4.354_566_6e-16 - 1.0).abs() < 8.0 * f32::EPSILON);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn lag_behind_light<T: Real>(motion: &Motion<T>, length_m: T) -> Result<T, Error> {
+pub fn try_lag_behind_light<T: Real>(motion: &Motion<T>, length_m: T) -> Result<T, Error> {
     let l = positive_length(length_m)?;
     let x = motion.one_minus_beta() / motion.beta();
-    finite(l * x * T::INV_SPEED_OF_LIGHT).map_err(|_| Error::Overflow)
+    try_finite(l * x * T::INV_SPEED_OF_LIGHT).map_err(|_| Error::Overflow)
 }
 
 /// Difference of the flight times of two states over the same length, `t_a − t_b` in s.
@@ -196,11 +200,11 @@ pub fn lag_behind_light<T: Real>(motion: &Motion<T>, length_m: T) -> Result<T, E
 /// // An invented 20 m flight path: a 1 GeV muon vs a 1 GeV electron.
 /// let mu = Motion::try_from_kinetic_energy(Species::<f32>::MUON, 1.0e9)?;
 /// let e = Motion::try_from_kinetic_energy(Species::<f32>::ELECTRON, 1.0e9)?;
-/// let dt = optics::flight_time_difference(&mu, &e, 20.0)?;
+/// let dt = optics::try_flight_time_difference(&mu, &e, 20.0)?;
 /// assert!((dt / 3.067_043_4e-10 - 1.0).abs() < 1e-5); // 0.306704339 ns (mpmath)
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn flight_time_difference<T: Real>(
+pub fn try_flight_time_difference<T: Real>(
     a: &Motion<T>,
     b: &Motion<T>,
     length_m: T,
@@ -208,53 +212,54 @@ pub fn flight_time_difference<T: Real>(
     let l = positive_length(length_m)?;
     let xa = a.one_minus_beta() / a.beta();
     let xb = b.one_minus_beta() / b.beta();
-    finite(l * (xa - xb) * T::INV_SPEED_OF_LIGHT).map_err(|_| Error::Overflow)
+    try_finite(l * (xa - xb) * T::INV_SPEED_OF_LIGHT).map_err(|_| Error::Overflow)
 }
 
-/// Kinetic energy gained crossing a potential difference, `ΔT = −Q Δφ` in eV.
+/// Kinetic energy a voltage `V` gives a particle of charge `Q`: `ΔT = Q V` in eV.
 ///
-/// `Δφ = φ_end − φ_start` in V: a proton going from +1 MV down to ground (`Δφ = −1 MV`) gains
-/// 1 MeV. Exact for any path (energy conservation; Jackson 3rd ed., from memory).
+/// The crate's one sign convention for energy gains (see the crate manual): `V` is the voltage
+/// across the gap or electrode pair in the direction of travel, so `V > 0` accelerates a positive
+/// charge; an electron gains energy from a negative `V`. Exact for any path (energy
+/// conservation; Jackson, Classical Electrodynamics, 3rd ed., from memory); one rounding.
 ///
 /// # Errors
-/// [`Error::NonFinite`] for a non-finite potential difference; [`Error::Overflow`] when `Q Δφ`
-/// does not fit the precision.
+/// [`Error::NonFinite`] for a non-finite voltage; [`Error::Overflow`] when `Q V` does not fit the
+/// precision.
 ///
 /// # Examples
 /// ```
 /// use fourforce::{optics, Species};
-/// // An electron accelerated from a cathode at 0 V to an anode at +10 kV gains 10 keV.
-/// assert_eq!(optics::energy_gain(Species::<f32>::ELECTRON, 10.0e3)?, 10.0e3);
+/// // An invented 10 kV electron gun: the electron crosses −10 kV in its direction of travel.
+/// assert_eq!(optics::try_energy_gain(Species::<f32>::ELECTRON, -10.0e3)?, 10.0e3);
+/// assert_eq!(optics::try_energy_gain(Species::<f32>::ALPHA, 1.0e6)?, 2.0e6);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn energy_gain<T: Real>(species: Species<T>, potential_difference_v: T) -> Result<T, Error> {
-    let dphi = finite(potential_difference_v)?;
-    finite(-(species.charge() * dphi)).map_err(|_| Error::Overflow)
+pub fn try_energy_gain<T: Real>(species: Species<T>, voltage_v: T) -> Result<T, Error> {
+    let v = try_finite(voltage_v)?;
+    try_finite(species.charge() * v).map_err(|_| Error::Overflow)
 }
 
-/// The state after crossing a potential difference `Δφ` (V): `T' = T − Q Δφ`.
+/// The state after a voltage `V`: `T' = T + Q V` ([`try_energy_gain`]).
 ///
 /// In `f32` a gain below `2⁻²⁵ T` is lost in the sum (an f32 `T` of 1 GeV has a spacing of
-/// 64 eV): accumulate small gains separately, or hold `T` in `f64`.
+/// 64 eV): accumulate small gains separately (as [`BeamState`](crate::beamline::BeamState)
+/// does), or hold `T` in `f64`.
 ///
 /// # Errors
-/// [`Error::NonFinite`]; [`Error::NegativeEnergy`] when the particle cannot climb the potential
-/// (it is reflected); [`Error::Overflow`].
+/// As [`try_energy_gain`]; [`Error::NegativeEnergy`] when the voltage takes more than the kinetic
+/// energy (the particle is reflected); as [`Motion::try_from_kinetic_energy`].
 ///
 /// # Examples
 /// ```
 /// use fourforce::{optics, Motion, Species};
-/// // published-checks §7.5: an electron from rest through 10 kV moves at 58455214.93 m/s.
-/// let rest = Motion::try_from_kinetic_energy(Species::<f64>::ELECTRON, 0.0)?;
-/// let e = optics::after_potential_difference(&rest, 10.0e3)?;
+/// // An electron from rest through −10 kV moves at 58 455 214.93 m/s (mpmath, CODATA 2018).
+/// let rest = Motion::at_rest(Species::<f64>::ELECTRON);
+/// let e = optics::try_after_voltage(&rest, -10.0e3)?;
 /// assert!((e.speed() - 58_455_214.927_781_732).abs() < 1e-6);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn after_potential_difference<T: Real>(
-    motion: &Motion<T>,
-    potential_difference_v: T,
-) -> Result<Motion<T>, Error> {
-    let gain = energy_gain(motion.species(), potential_difference_v)?;
+pub fn try_after_voltage<T: Real>(motion: &Motion<T>, voltage_v: T) -> Result<Motion<T>, Error> {
+    let gain = try_energy_gain(motion.species(), voltage_v)?;
     Motion::try_from_kinetic_energy(motion.species(), motion.kinetic_energy() + gain)
 }
 
@@ -268,14 +273,14 @@ pub fn after_potential_difference<T: Real>(
 /// use fourforce::{optics, Motion, Species};
 /// // An invented corrector of 2 mT m on a 250 MeV proton (B rho 2.4321284387 T m): 0.822 mrad.
 /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 250.0e6)?;
-/// let theta = optics::kick_angle(&p, 2.0e-3)?;
+/// let theta = optics::try_kick_angle(&p, 2.0e-3)?;
 /// assert!((theta - 2.0e-3 / 2.432_128_438_725_504_4).abs() < 1e-18);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn kick_angle<T: Real>(motion: &Motion<T>, integrated_field_tm: T) -> Result<T, Error> {
-    let bl = finite(integrated_field_tm)?;
-    let brho = motion.magnetic_rigidity()?;
-    finite(charge_sign(motion) * bl / brho).map_err(|_| Error::Overflow)
+pub fn try_kick_angle<T: Real>(motion: &Motion<T>, integrated_field_tm: T) -> Result<T, Error> {
+    let bl = try_finite(integrated_field_tm)?;
+    let brho = motion.try_magnetic_rigidity()?;
+    try_finite(charge_sign(motion) * bl / brho).map_err(|_| Error::Overflow)
 }
 
 /// Deflection by a hard-edge dipole of field `B` and length `L`: `sin θ = ±L B / Bρ` in rad.
@@ -293,18 +298,18 @@ pub fn kick_angle<T: Real>(motion: &Motion<T>, integrated_field_tm: T) -> Result
 /// use fourforce::{optics, Motion, Species};
 /// // 0.5 T over 0.2 m on the 250 MeV proton: asin(0.1/2.4321284387) = 41.13 mrad.
 /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 250.0e6)?;
-/// let theta = optics::kick_angle_hard_edge(&p, 0.5, 0.2)?;
+/// let theta = optics::try_kick_angle_hard_edge(&p, 0.5, 0.2)?;
 /// assert!((theta - (0.1_f64 / 2.432_128_438_725_504_4).asin()).abs() < 1e-15);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn kick_angle_hard_edge<T: Real>(
+pub fn try_kick_angle_hard_edge<T: Real>(
     motion: &Motion<T>,
     field_t: T,
     length_m: T,
 ) -> Result<T, Error> {
-    let b = finite(field_t)?;
+    let b = try_finite(field_t)?;
     let l = positive_length(length_m)?;
-    let brho = motion.magnetic_rigidity()?;
+    let brho = motion.try_magnetic_rigidity()?;
     let s = charge_sign(motion) * l * b / brho;
     if !s.is_finite() || s.abs() > T::ONE {
         return Err(Error::AngleOutOfRange);
@@ -323,14 +328,17 @@ pub fn kick_angle_hard_edge<T: Real>(
 /// use fourforce::{optics, Motion, Species};
 /// // 1 mrad on a 1 MeV electron (B rho 4.7431804486e-3 T m, mpmath): 4.74 uT m; negative charge.
 /// let e = Motion::try_from_kinetic_energy(Species::<f64>::ELECTRON, 1.0e6)?;
-/// let bl = optics::integrated_field_for_angle(&e, 1.0e-3)?;
+/// let bl = optics::try_integrated_field_for_angle(&e, 1.0e-3)?;
 /// assert!((bl + 4.743_180_448_575_933e-6).abs() < 1e-20);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn integrated_field_for_angle<T: Real>(motion: &Motion<T>, angle_rad: T) -> Result<T, Error> {
-    let theta = finite(angle_rad)?;
-    let brho = motion.magnetic_rigidity()?;
-    finite(charge_sign(motion) * theta * brho).map_err(|_| Error::Overflow)
+pub fn try_integrated_field_for_angle<T: Real>(
+    motion: &Motion<T>,
+    angle_rad: T,
+) -> Result<T, Error> {
+    let theta = try_finite(angle_rad)?;
+    let brho = motion.try_magnetic_rigidity()?;
+    try_finite(charge_sign(motion) * theta * brho).map_err(|_| Error::Overflow)
 }
 
 /// Field a hard-edge dipole of length `L` needs for a wanted bend: `B = ±Bρ sin θ / L` in T.
@@ -343,22 +351,22 @@ pub fn integrated_field_for_angle<T: Real>(motion: &Motion<T>, angle_rad: T) -> 
 /// ```
 /// use fourforce::{optics, Motion, Species};
 /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 250.0e6)?;
-/// let theta = optics::kick_angle_hard_edge(&p, 0.5, 0.2)?;
-/// assert!((optics::field_for_angle_hard_edge(&p, theta, 0.2)? - 0.5).abs() < 1e-15);
+/// let theta = optics::try_kick_angle_hard_edge(&p, 0.5, 0.2)?;
+/// assert!((optics::try_field_for_angle_hard_edge(&p, theta, 0.2)? - 0.5).abs() < 1e-15);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn field_for_angle_hard_edge<T: Real>(
+pub fn try_field_for_angle_hard_edge<T: Real>(
     motion: &Motion<T>,
     angle_rad: T,
     length_m: T,
 ) -> Result<T, Error> {
-    let theta = finite(angle_rad)?;
+    let theta = try_finite(angle_rad)?;
     let l = positive_length(length_m)?;
     if theta.abs() > T::PI * T::HALF {
         return Err(Error::AngleOutOfRange);
     }
-    let brho = motion.magnetic_rigidity()?;
-    finite(charge_sign(motion) * brho * theta.sin() / l).map_err(|_| Error::Overflow)
+    let brho = motion.try_magnetic_rigidity()?;
+    try_finite(charge_sign(motion) * brho * theta.sin() / l).map_err(|_| Error::Overflow)
 }
 
 /// Deflection of a thin electrostatic deflector, small-angle form: `θ = ±E L / Eρ` in rad.
@@ -372,19 +380,19 @@ pub fn field_for_angle_hard_edge<T: Real>(
 /// use fourforce::{optics, Motion, Species};
 /// // An invented 5 kV/m, 0.1 m deflector on a 10 keV electron (E rho 19808.061 V): 25.2 mrad.
 /// let e = Motion::try_from_kinetic_energy(Species::<f64>::ELECTRON, 10.0e3)?;
-/// let theta = optics::electrostatic_kick_angle(&e, 5.0e3, 0.1)?;
+/// let theta = optics::try_electrostatic_kick_angle(&e, 5.0e3, 0.1)?;
 /// assert!((theta + 500.0 / 19_808.061_033_520_317).abs() < 1e-15); // negative charge
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn electrostatic_kick_angle<T: Real>(
+pub fn try_electrostatic_kick_angle<T: Real>(
     motion: &Motion<T>,
     field_v_per_m: T,
     length_m: T,
 ) -> Result<T, Error> {
-    let e = finite(field_v_per_m)?;
+    let e = try_finite(field_v_per_m)?;
     let l = positive_length(length_m)?;
-    let erho = motion.electric_rigidity()?;
-    finite(charge_sign(motion) * e * l / erho).map_err(|_| Error::Overflow)
+    let erho = motion.try_electric_rigidity()?;
+    try_finite(charge_sign(motion) * e * l / erho).map_err(|_| Error::Overflow)
 }
 
 /// Field a thin electrostatic deflector of length `L` needs for a wanted angle:
@@ -398,67 +406,19 @@ pub fn electrostatic_kick_angle<T: Real>(
 /// use fourforce::{optics, Motion, Species};
 /// let a = Motion::try_from_kinetic_energy(Species::<f64>::ALPHA, 5.0e6)?;
 /// // 2 mrad over 0.5 m: 4996650.93 V * 2e-3 / 0.5 = 19986.6 V/m.
-/// let e = optics::deflector_field_for_angle(&a, 2.0e-3, 0.5)?;
+/// let e = optics::try_deflector_field_for_angle(&a, 2.0e-3, 0.5)?;
 /// assert!((e - 19_986.603_719_892_04).abs() < 1e-9);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn deflector_field_for_angle<T: Real>(
+pub fn try_deflector_field_for_angle<T: Real>(
     motion: &Motion<T>,
     angle_rad: T,
     length_m: T,
 ) -> Result<T, Error> {
-    let theta = finite(angle_rad)?;
+    let theta = try_finite(angle_rad)?;
     let l = positive_length(length_m)?;
-    let erho = motion.electric_rigidity()?;
-    finite(charge_sign(motion) * theta * erho / l).map_err(|_| Error::Overflow)
-}
-
-/// The state of a particle from its measured flight time over a baseline.
-///
-/// The same as [`Motion::try_from_flight_time`]: `c t − L` from an exact product, so a
-/// relativistic flight time keeps its information.
-///
-/// # Errors
-/// As [`Motion::try_from_flight_time`]: [`Error::FasterThanLight`] when `c t ≤ L`.
-///
-/// # Examples
-/// ```
-/// use fourforce::{optics, Species};
-/// // An invented 1.5 m time-of-flight cell: an alpha taking 96.6960971417 ns has 5 MeV (mpmath).
-/// let a = optics::energy_from_flight_time(Species::<f64>::ALPHA, 1.5, 96.696_097_141_7e-9)?;
-/// assert!((a.kinetic_energy() / 5.0e6 - 1.0).abs() < 1e-10);
-/// # Ok::<(), fourforce::Error>(())
-/// ```
-pub fn energy_from_flight_time<T: Real>(
-    species: Species<T>,
-    baseline_m: T,
-    time_s: T,
-) -> Result<Motion<T>, Error> {
-    Motion::try_from_flight_time(species, baseline_m, time_s)
-}
-
-/// The state of a particle that a dipole field `B` centres on a bending radius `ρ`: `Bρ = |B| ρ`.
-///
-/// # Errors
-/// [`Error::ZeroCharge`]; [`Error::ZeroField`]; [`Error::NonFinite`];
-/// [`Error::NonPositiveLength`] for `ρ ≤ 0`; [`Error::Overflow`].
-///
-/// # Examples
-/// ```
-/// use fourforce::{optics, Species};
-/// // An invented spectrometer magnet, rho = 1.2 m, centres the beam at 0.811 T: a 9.7 MeV proton.
-/// let p = optics::energy_from_centring_field(Species::<f64>::PROTON, 0.811, 1.2)?;
-/// assert!((p.magnetic_rigidity()? - 0.9732).abs() < 1e-15);
-/// # Ok::<(), fourforce::Error>(())
-/// ```
-pub fn energy_from_centring_field<T: Real>(
-    species: Species<T>,
-    field_t: T,
-    bending_radius_m: T,
-) -> Result<Motion<T>, Error> {
-    let b = nonzero_field(field_t)?;
-    let rho = positive_length(bending_radius_m)?;
-    Motion::try_from_magnetic_rigidity(species, b * rho)
+    let erho = motion.try_electric_rigidity()?;
+    try_finite(charge_sign(motion) * theta * erho / l).map_err(|_| Error::Overflow)
 }
 
 /// The state of a particle that a hard-edge dipole of length `L` at field `B` bends by `θ`:
@@ -473,12 +433,12 @@ pub fn energy_from_centring_field<T: Real>(
 /// ```
 /// use fourforce::{optics, Motion, Species};
 /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 250.0e6)?;
-/// let theta = optics::kick_angle_hard_edge(&p, 0.5, 0.2)?;
-/// let back = optics::energy_from_dipole(Species::<f64>::PROTON, 0.5, 0.2, theta)?;
+/// let theta = optics::try_kick_angle_hard_edge(&p, 0.5, 0.2)?;
+/// let back = optics::try_motion_from_dipole(Species::<f64>::PROTON, 0.5, 0.2, theta)?;
 /// assert!((back.kinetic_energy() / 250.0e6 - 1.0).abs() < 1e-14);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
-pub fn energy_from_dipole<T: Real>(
+pub fn try_motion_from_dipole<T: Real>(
     species: Species<T>,
     field_t: T,
     length_m: T,
@@ -486,34 +446,9 @@ pub fn energy_from_dipole<T: Real>(
 ) -> Result<Motion<T>, Error> {
     let b = nonzero_field(field_t)?;
     let l = positive_length(length_m)?;
-    let theta = finite(bend_angle_rad)?;
+    let theta = try_finite(bend_angle_rad)?;
     if theta <= T::ZERO || theta > T::PI * T::HALF {
         return Err(Error::AngleOutOfRange);
     }
     Motion::try_from_magnetic_rigidity(species, b * l / theta.sin())
-}
-
-/// The state of a particle that a transverse electric field `E` bends on a radius `ρ`:
-/// `Eρ = |E| ρ`.
-///
-/// # Errors
-/// [`Error::ZeroCharge`]; [`Error::ZeroField`]; [`Error::NonFinite`];
-/// [`Error::NonPositiveLength`]; [`Error::Overflow`].
-///
-/// # Examples
-/// ```
-/// use fourforce::{optics, Species};
-/// // An invented electrostatic analyser: 20 kV/m on 0.5 m passes 10 kV rigidity: a ~5 keV proton.
-/// let p = optics::energy_from_deflector(Species::<f64>::PROTON, 20.0e3, 0.5)?;
-/// assert!((p.electric_rigidity()? - 1.0e4).abs() < 1e-10);
-/// # Ok::<(), fourforce::Error>(())
-/// ```
-pub fn energy_from_deflector<T: Real>(
-    species: Species<T>,
-    field_v_per_m: T,
-    bending_radius_m: T,
-) -> Result<Motion<T>, Error> {
-    let e = nonzero_field(field_v_per_m)?;
-    let rho = positive_length(bending_radius_m)?;
-    Motion::try_from_electric_rigidity(species, e * rho)
 }

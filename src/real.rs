@@ -453,12 +453,12 @@ impl_real!(
 ///
 /// # Examples
 /// ```
-/// use fourforce::{finite, Error};
-/// assert_eq!(finite(1.5_f32), Ok(1.5));
-/// assert_eq!(finite(f32::NAN), Err(Error::NonFinite));
+/// use fourforce::{try_finite, Error};
+/// assert_eq!(try_finite(1.5_f32), Ok(1.5));
+/// assert_eq!(try_finite(f32::NAN), Err(Error::NonFinite));
 /// ```
 #[inline]
-pub fn finite<T: Real>(x: T) -> Result<T, crate::Error> {
+pub fn try_finite<T: Real>(x: T) -> Result<T, crate::Error> {
     if x.is_finite() {
         Ok(x)
     } else {

@@ -114,61 +114,19 @@ impl Metric {
     /// # Examples
     /// ```
     /// use fourforce::Metric;
-    /// assert_eq!(Metric::component::<f32>(0, 0)?, 1.0);
-    /// assert_eq!(Metric::component::<f32>(2, 2)?, -1.0);
-    /// assert_eq!(Metric::component::<f32>(1, 2)?, 0.0);
-    /// assert!(Metric::component::<f32>(4, 0).is_err());
+    /// assert_eq!(Metric::try_component::<f32>(0, 0)?, 1.0);
+    /// assert_eq!(Metric::try_component::<f32>(2, 2)?, -1.0);
+    /// assert_eq!(Metric::try_component::<f32>(1, 2)?, 0.0);
+    /// assert!(Metric::try_component::<f32>(4, 0).is_err());
     /// # Ok::<(), fourforce::Error>(())
     /// ```
-    pub fn component<T: Real>(mu: usize, nu: usize) -> Result<T, Error> {
+    pub fn try_component<T: Real>(mu: usize, nu: usize) -> Result<T, Error> {
         match (mu, nu) {
             (0, 0) => Ok(T::ONE),
             (1, 1) | (2, 2) | (3, 3) => Ok(T::NEG_ONE),
             (0..=3, 0..=3) => Ok(T::ZERO),
             _ => Err(Error::OutOfBounds),
         }
-    }
-
-    /// Lowers an index: `x_μ = g_μν x^ν = (x⁰, −x)`; exact.
-    ///
-    /// # Examples
-    /// ```
-    /// use fourforce::{Covector, FourVector, Metric};
-    /// let x = FourVector::new(1.0_f32, 2.0, 3.0, 4.0);
-    /// assert_eq!(Metric::lower(x), Covector::new(1.0, -2.0, -3.0, -4.0));
-    /// ```
-    #[must_use]
-    #[inline]
-    pub fn lower<T: Real>(x: FourVector<T>) -> Covector<T> {
-        x.lower()
-    }
-
-    /// Raises an index: `k^μ = g^μν k_ν = (k₀, −k)`; exact.
-    ///
-    /// # Examples
-    /// ```
-    /// use fourforce::{Covector, FourVector, Metric};
-    /// let k = Covector::new(1.0_f64, -2.0, 0.0, 0.0);
-    /// assert_eq!(Metric::raise(k), FourVector::new(1.0, 2.0, 0.0, 0.0));
-    /// ```
-    #[must_use]
-    #[inline]
-    pub fn raise<T: Real>(k: Covector<T>) -> FourVector<T> {
-        k.raise()
-    }
-
-    /// The inner product `g_μν a^μ b^ν = a⁰b⁰ − a·b`.
-    ///
-    /// # Examples
-    /// ```
-    /// use fourforce::{FourVector, Metric};
-    /// let light = FourVector::new(1.0_f32, 1.0, 0.0, 0.0);
-    /// assert_eq!(Metric::inner(light, light), 0.0); // null
-    /// ```
-    #[must_use]
-    #[inline]
-    pub fn inner<T: Real>(a: FourVector<T>, b: FourVector<T>) -> T {
-        a.inner(b)
     }
 }
 
@@ -752,7 +710,7 @@ mod tests {
     fn metric_components() {
         for mu in 0..4 {
             for nu in 0..4 {
-                let g = Metric::component::<f64>(mu, nu).unwrap();
+                let g = Metric::try_component::<f64>(mu, nu).unwrap();
                 let expected = if mu == nu {
                     f64::from(Metric::SIGNATURE[mu])
                 } else {
@@ -761,7 +719,7 @@ mod tests {
                 assert_eq!(g, expected);
             }
         }
-        assert_eq!(Metric::component::<f64>(0, 4), Err(Error::OutOfBounds));
+        assert_eq!(Metric::try_component::<f64>(0, 4), Err(Error::OutOfBounds));
     }
 
     #[test]

@@ -2,7 +2,7 @@
 //! monitor downstream.
 //!
 //! # Model and assumptions
-//! A thin magnetic corrector kicks the beam by `θ = ±∫B dl / Bρ` ([`optics::kick_angle`](crate::optics::kick_angle)); a
+//! A thin magnetic corrector kicks the beam by `θ = ±∫B dl / Bρ` ([`optics::try_kick_angle`](crate::optics::try_kick_angle)); a
 //! field-free drift of length `L` carries it to a position monitor, where the offset changes by
 //! `L θ`. So a change `Δ(∫B dl)` of the corrector moves the beam at the monitor by
 //! `±L Δ(∫B dl) / Bρ`. The step asks for a fraction `g` (the gain) of the change that would put
@@ -44,7 +44,7 @@
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
-use crate::{Error, Motion, Real, finite};
+use crate::{Error, Motion, Real, try_finite};
 
 /// The fixed parameters of one steering loop: drift to the monitor, gain, corrector limits.
 ///
@@ -85,10 +85,10 @@ impl<T: Real> SteeringSetup<T> {
         max_integrated_field_tm: T,
         max_change_tm: T,
     ) -> Result<Self, Error> {
-        let drift_m = finite(drift_m)?;
-        let gain = finite(gain)?;
-        let max_integrated_field_tm = finite(max_integrated_field_tm)?;
-        let max_change_tm = finite(max_change_tm)?;
+        let drift_m = try_finite(drift_m)?;
+        let gain = try_finite(gain)?;
+        let max_integrated_field_tm = try_finite(max_integrated_field_tm)?;
+        let max_change_tm = try_finite(max_change_tm)?;
         if drift_m <= T::ZERO {
             return Err(Error::NonPositiveLength);
         }
@@ -192,12 +192,12 @@ impl<T: Real> SteeringSetup<T> {
         target_m: T,
         current_tm: T,
     ) -> Result<SteeringCommand<T>, Error> {
-        let measured = finite(measured_m)?;
-        let target = finite(target_m)?;
-        let current = clamp(finite(current_tm)?, self.max_integrated_field_tm);
-        let brho = beam.magnetic_rigidity()?;
+        let measured = try_finite(measured_m)?;
+        let target = try_finite(target_m)?;
+        let current = clamp(try_finite(current_tm)?, self.max_integrated_field_tm);
+        let brho = beam.try_magnetic_rigidity()?;
         let sign = T::ONE.copysign(beam.species().charge());
-        let wanted = finite(sign * self.gain * brho * (target - measured) / self.drift_m)
+        let wanted = try_finite(sign * self.gain * brho * (target - measured) / self.drift_m)
             .map_err(|_| Error::Overflow)?;
         let change = clamp(wanted, self.max_change_tm);
         let setting = clamp(current + change, self.max_integrated_field_tm);

@@ -32,8 +32,8 @@ fn inputs<T: Real>(from: &str) -> [T; N] {
             "beta" => m.beta().min(T::from_f64(0.999_999)),
             "beta_gamma" => m.beta_gamma(),
             "momentum" => m.momentum(),
-            "magnetic_rigidity" => m.magnetic_rigidity().unwrap(),
-            "electric_rigidity" => m.electric_rigidity().unwrap(),
+            "magnetic_rigidity" => m.try_magnetic_rigidity().unwrap(),
+            "electric_rigidity" => m.try_electric_rigidity().unwrap(),
             "speed" => m.speed().min(T::from_f64(2.99e8)),
             _ => m.flight_time(T::ONE).max(T::from_f64(3.4e-9)),
         }

@@ -74,11 +74,11 @@ fn row<T: Float>(text: &str) -> Result<Option<String>, String> {
         m.one_minus_beta(),
         m.beta_gamma(),
         m.momentum() * T::from_f64(1.0e-6),
-        m.magnetic_rigidity().map_err(|e| e.to_string())?,
-        m.electric_rigidity().map_err(|e| e.to_string())?,
+        m.try_magnetic_rigidity().map_err(|e| e.to_string())?,
+        m.try_electric_rigidity().map_err(|e| e.to_string())?,
         m.speed(),
         m.flight_time_per_metre() * T::from_f64(1.0e9),
-        optics::revolution_frequency(&m, T::ONE).map_err(|e| e.to_string())?,
+        optics::try_revolution_frequency(&m, T::ONE).map_err(|e| e.to_string())?,
     ];
     let mut out = String::from(l.name);
     for v in values {

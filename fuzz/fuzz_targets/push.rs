@@ -1,9 +1,10 @@
 //! Door: the pushers from outside numbers (`StepFactors::try_new` through each scheme's
 //! `try_new`, `Particle::try_new`, `UniformField::try_new`, `try_step`, `try_run`,
-//! `try_start_leapfrog`, `try_synchronised_momentum`), for Boris, Vay and Higuera-Cary.
+//! `try_start_leapfrog`, `try_synchronised_beta_gamma`), for Boris, Vay and Higuera-Cary.
 #![no_main]
 
-use fourforce::push::{Boris, HigueraCary, Particle, Pusher, UniformField, Vay};
+use fourforce::FieldTensor;
+use fourforce::push::{Boris, HigueraCary, Particle, Pusher, Vay};
 use fourforce::{Error, Species, ThreeVector};
 use fuzzkit::{Bits, Input, both_precisions, known};
 use libfuzzer_sys::fuzz_target;
@@ -16,13 +17,13 @@ fn three<T: Bits>(input: &mut Input<'_>) -> ThreeVector<T> {
 #[track_caller]
 fn check_particle<T: Bits>(what: &str, p: &Particle<T>) {
     assert!(
-        p.position().is_finite() && p.momentum().is_finite(),
+        p.position().is_finite() && p.beta_gamma().is_finite(),
         "{what}: {p:?}"
     );
     let g = p.gamma();
     let one = T::ONE - T::from_f64(4.0) * T::EPSILON;
     assert!(g.is_finite() && g >= one, "{what}: gamma {g:?} in {p:?}");
-    let n = p.momentum().norm().to_f64();
+    let n = p.beta_gamma().norm().to_f64();
     let g64 = g.to_f64();
     let rel = ((g64 * g64 - 1.0 - n * n) / (g64 * g64)).abs();
     // Every scheme returns γ = √(1 + |u|²) of its new u, at any step length (no slack).
@@ -31,9 +32,7 @@ fn check_particle<T: Bits>(what: &str, p: &Particle<T>) {
         "{what}: gamma {g:?} vs |u| {n} in {p:?}"
     );
     assert!(p.gamma_minus_one().is_finite() && p.gamma_minus_one() >= T::ZERO);
-    assert!(
-        p.velocity().is_finite() && p.velocity().norm().to_f64() <= 1.0 + 4.0 * T::EPSILON.to_f64()
-    );
+    assert!(p.beta().is_finite() && p.beta().norm().to_f64() <= 1.0 + 4.0 * T::EPSILON.to_f64());
 }
 
 fn run<T: Bits>(input: &mut Input<'_>) {
@@ -95,7 +94,7 @@ fn drive<T: Bits, P: Pusher<T>>(pusher: P, input: &mut Input<'_>, steps: u32, st
         }
     };
     let (e, b) = (three::<T>(input), three::<T>(input));
-    let field = match UniformField::try_new(e, b) {
+    let field = match FieldTensor::try_from_fields(e, b) {
         Ok(f) => f,
         Err(err) => {
             assert!(!(e.is_finite() && b.is_finite()) && err == Error::NonFinite);
@@ -144,19 +143,19 @@ fn drive<T: Bits, P: Pusher<T>>(pusher: P, input: &mut Input<'_>, steps: u32, st
                 assert!(p.time().is_finite(), "time {:?} after a step", p.time());
                 if no_field {
                     assert_eq!(
-                        p.momentum(),
-                        before.momentum(),
+                        p.beta_gamma(),
+                        before.beta_gamma(),
                         "momentum changed with no field"
                     );
                 }
                 // (Below the square root of the normal range, the products of the rotation
                 // are subnormal and carry only an absolute accuracy.)
                 let tiny = T::MIN_POSITIVE.to_f64().sqrt();
-                if pure_b && before.momentum().norm().to_f64() > tiny {
+                if pure_b && before.beta_gamma().norm().to_f64() > tiny {
                     // |u| is conserved by the exact rotation, up to rounding.
                     let (n0, n1) = (
-                        before.momentum().norm().to_f64(),
-                        p.momentum().norm().to_f64(),
+                        before.beta_gamma().norm().to_f64(),
+                        p.beta_gamma().norm().to_f64(),
                     );
                     let tol = 16.0 * slack * T::EPSILON.to_f64() * n0 + T::MIN_POSITIVE.to_f64();
                     assert!((n1 - n0).abs() <= tol, "|u| {n0} -> {n1} in a pure B field");
@@ -169,7 +168,7 @@ fn drive<T: Bits, P: Pusher<T>>(pusher: P, input: &mut Input<'_>, steps: u32, st
             }
         }
     }
-    match pusher.try_synchronised_momentum(&p, &field) {
+    match pusher.try_synchronised_beta_gamma(&p, &field) {
         // γ ≥ 1 up to the rounding of Vay's quartic (1 − 2⁻⁵³ for u = 0 in a weak field).
         Ok((u, g)) => assert!(
             u.is_finite() && g.is_finite() && g >= T::ONE - T::from_f64(4.0) * T::EPSILON,

@@ -71,7 +71,7 @@ fn run<T: Real + FromStr + LowerExp>(text: &str) {
             let q = s.charge().abs().to_f64();
             let rigidities_fit = m.momentum().to_f64() / q < T::MAX.to_f64() / 4.0
                 && m.kinetic_energy().to_f64() / q < T::MAX.to_f64() / 4.0;
-            match (m.magnetic_rigidity(), m.electric_rigidity()) {
+            match (m.try_magnetic_rigidity(), m.try_electric_rigidity()) {
                 (Ok(b), Ok(e)) if rigidities_fit || !known::RIGIDITY_OK_INFINITE => {
                     values.push(b);
                     values.push(e);
@@ -85,7 +85,7 @@ fn run<T: Real + FromStr + LowerExp>(text: &str) {
                     "rigidities of a charged species refused: {b:?} {e:?}"
                 ),
             }
-            match optics::revolution_frequency(&m, T::ONE) {
+            match optics::try_revolution_frequency(&m, T::ONE) {
                 Ok(f) => values.push(f),
                 Err(e) => assert_eq!(e, fourforce::Error::Overflow, "{line:?}"),
             }

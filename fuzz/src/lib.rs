@@ -162,7 +162,7 @@ pub mod known {
     /// Fixed on 2026-12-02 (`Species::try_new` refuses below 1 eV with `RestEnergyTooSmall`;
     /// regression test in `src/species.rs`).
     pub const TINY_REST_ENERGY_NAN: bool = false;
-    /// `Motion::magnetic_rigidity` and `electric_rigidity` return `Ok(+inf)` when the rigidity
+    /// `Motion::try_magnetic_rigidity` and `electric_rigidity` return `Ok(+inf)` when the rigidity
     /// (or `pc/|Q|`, formed before the division by `c`) does not fit the precision (a species of
     /// tiny charge, such as 1e-300 e in f64), instead
     /// of `Err(Error::Overflow)`.
@@ -174,7 +174,7 @@ pub mod known {
     /// Unreachable since 2026-12-02: with rest energies of at least 1 eV, `γ` stays below the
     /// largest kinetic energy a state accepts (about 2^64 in f32, 2^512 in f64).
     pub const ONE_MINUS_BETA_UNDERFLOW: bool = false;
-    /// `optics::energy_gain` and `optics::integrated_field_for_angle` return `Ok(±inf)` when
+    /// `optics::energy_gain` and `optics::try_integrated_field_for_angle` return `Ok(±inf)` when
     /// their product overflows, instead of `Err(Error::Overflow)`.
     /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
     pub const UNCHECKED_PRODUCTS: bool = false;
@@ -326,8 +326,8 @@ pub fn check_motion<T: Real>(m: &fourforce::Motion<T>, door: u8, x: T, length: T
     assert!(m.speed() <= c + T::from_f64(16.0), "speed above c in {m:?}");
     // The rigidities: refused exactly for a neutral species, else finite and not negative.
     for (name, r) in [
-        ("magnetic_rigidity", m.magnetic_rigidity()),
-        ("electric_rigidity", m.electric_rigidity()),
+        ("magnetic_rigidity", m.try_magnetic_rigidity()),
+        ("electric_rigidity", m.try_electric_rigidity()),
     ] {
         if s.charge() == T::ZERO {
             assert_eq!(

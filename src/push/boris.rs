@@ -3,7 +3,7 @@
 //! J. P. Boris, "Relativistic plasma simulation — optimization of a hybrid code", Proc. Fourth
 //! Conf. on Numerical Simulation of Plasmas, Naval Research Laboratory, Washington DC (1970).
 //!
-//! With `ε = (Q c Δt / 2mc²) E` and `τ = (Q c² Δt / 2mc²) B`:
+//! With `ε = (Q c Δt / 2mc²) E` and `τ = (Q c Δt / 2mc²) cB`:
 //!
 //! ```text
 //! u⁻ = uⁿ + ε                    γ⁻ = √(1 + |u⁻|²)
@@ -20,21 +20,21 @@
 //!
 //! Cost: 2 square roots (`γ⁻`, and `γⁿ⁺¹` for the drift), 3 divisions (with the drift's `1/γ`).
 
-use super::{LocalField, Pusher, StepFactors};
-use crate::{Real, ThreeVector};
+use super::{Pusher, StepFactors};
+use crate::{FieldTensor, Real, ThreeVector};
 
 /// The relativistic Boris pusher (Boris 1970), with its step factors precomputed.
 ///
 /// # Examples
 /// ```
-/// use fourforce::{Species, ThreeVector};
-/// use fourforce::push::{Boris, Particle, Pusher, UniformField};
+/// use fourforce::{FieldTensor, Species, ThreeVector};
+/// use fourforce::push::{Boris, Particle, Pusher};
 /// // An electron with γβ = 3 in 1 T: |u| is kept while it turns.
-/// let b = UniformField::new(ThreeVector::ZERO, ThreeVector::new(0.0_f32, 0.0, 1.0));
+/// let b = FieldTensor::try_from_fields(ThreeVector::ZERO, ThreeVector::new(0.0_f32, 0.0, 1.0))?;
 /// let pusher = Boris::try_new(Species::ELECTRON, 1.0e-12)?;
 /// let mut p = Particle::try_new(ThreeVector::ZERO, ThreeVector::new(3.0, 0.0, 0.0), 0.0)?;
 /// pusher.try_run(&mut p, &b, 1000)?;
-/// assert!((p.momentum().norm() - 3.0).abs() < 1e-5);
+/// assert!((p.beta_gamma().norm() - 3.0).abs() < 1e-5);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -55,15 +55,16 @@ impl<T: Real> Pusher<T> for Boris<T> {
     }
 
     #[inline]
-    fn push_momentum(
+    fn push_beta_gamma(
         &self,
-        momentum: ThreeVector<T>,
+        beta_gamma: ThreeVector<T>,
         _gamma: T,
-        field: &LocalField<T>,
+        field: &FieldTensor<T>,
     ) -> (ThreeVector<T>, T) {
-        let eps = field.electric * self.factors.kick;
-        let tau = field.magnetic * self.factors.rotation;
-        let u_minus = momentum + eps;
+        // ε = kick·E and τ = kick·cB: one factor for both halves of the field.
+        let eps = field.e() * self.factors.kick;
+        let tau = field.c_b() * self.factors.kick;
+        let u_minus = beta_gamma + eps;
         let gamma_minus = (T::ONE + u_minus.norm_squared()).sqrt();
         let t = tau * (T::ONE / gamma_minus);
         let s = T::TWO / (T::ONE + t.norm_squared());

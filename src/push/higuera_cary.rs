@@ -1,4 +1,4 @@
-//! The Higuera-Cary pusher: a Boris-like rotation with the γ of the mean momentum.
+//! The Higuera-Cary pusher: a Boris-like rotation with the γ of the mean `u`.
 //!
 //! A. V. Higuera, J. R. Cary, "Structure-preserving second-order integration of relativistic
 //! charged particle trajectories in electromagnetic fields", Physics of Plasmas 24, 052104
@@ -21,24 +21,24 @@
 //!
 //! Cost: 3 square roots (the quartic's two, and `γⁿ⁺¹` for the drift), 3 divisions (with the drift's `1/γ`).
 
-use super::{LocalField, Pusher, StepFactors, implicit_gamma_squared};
-use crate::{Real, ThreeVector};
+use super::{Pusher, StepFactors, implicit_gamma_squared};
+use crate::{FieldTensor, Real, ThreeVector};
 
 /// The Higuera-Cary pusher (Higuera and Cary 2017), with its step factors precomputed.
 ///
 /// # Examples
 /// ```
-/// use fourforce::{Species, ThreeVector};
-/// use fourforce::push::{HigueraCary, Particle, Pusher, UniformField};
+/// use fourforce::{FieldTensor, Species, ThreeVector};
+/// use fourforce::push::{HigueraCary, Particle, Pusher};
 /// // A proton at the E × B velocity of E = 0.6 cB keeps its momentum.
-/// let fields = UniformField::try_new(
+/// let fields = FieldTensor::try_from_fields(
 ///     ThreeVector::new(0.0, 0.6 * 299_792_458.0, 0.0),
 ///     ThreeVector::new(0.0, 0.0, 1.0_f64),
 /// )?;
 /// let pusher = HigueraCary::try_new(Species::PROTON, 1.0e-8)?;
 /// let mut p = Particle::try_new(ThreeVector::ZERO, ThreeVector::new(0.75, 0.0, 0.0), 0.0)?;
 /// pusher.try_run(&mut p, &fields, 100)?;
-/// assert!((p.momentum() - ThreeVector::new(0.75, 0.0, 0.0)).norm() < 1e-13);
+/// assert!((p.beta_gamma() - ThreeVector::new(0.75, 0.0, 0.0)).norm() < 1e-13);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -59,15 +59,16 @@ impl<T: Real> Pusher<T> for HigueraCary<T> {
     }
 
     #[inline]
-    fn push_momentum(
+    fn push_beta_gamma(
         &self,
-        momentum: ThreeVector<T>,
+        beta_gamma: ThreeVector<T>,
         _gamma: T,
-        field: &LocalField<T>,
+        field: &FieldTensor<T>,
     ) -> (ThreeVector<T>, T) {
-        let eps = field.electric * self.factors.kick;
-        let tau = field.magnetic * self.factors.rotation;
-        let u_minus = momentum + eps;
+        // ε = kick·E and τ = kick·cB: one factor for both halves of the field.
+        let eps = field.e() * self.factors.kick;
+        let tau = field.c_b() * self.factors.kick;
+        let u_minus = beta_gamma + eps;
         let tau_sq = tau.norm_squared();
         let u_star = u_minus.dot(tau);
         let sigma = T::ONE + u_minus.norm_squared() - tau_sq;

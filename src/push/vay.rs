@@ -4,7 +4,7 @@
 //! Plasmas 15, 056701 (2008).
 //!
 //! The update is `uⁿ⁺¹ = uⁿ + 2ε + (uⁿ/γⁿ + uⁿ⁺¹/γⁿ⁺¹) × τ` with `ε = (Q c Δt / 2mc²) E` and
-//! `τ = (Q c² Δt / 2mc²) B`: the velocity in the magnetic force is the mean of the velocities at
+//! `τ = (Q c Δt / 2mc²) cB`: the velocity in the magnetic force is the mean of the velocities at
 //! both ends of the step. Derivation of the solution (ours): put `u' = uⁿ + 2ε + (uⁿ/γⁿ) × τ`,
 //! so that `u = u' + u × t` with `u = uⁿ⁺¹` and `t = τ/γⁿ⁺¹`. Squaring `u - u × t = u'` and using
 //! `u · τ = u' · τ = u*` gives `γ⁴ - σγ² - (|τ|² + u*²) = 0`, `σ = 1 + |u'|² - |τ|²`, whose positive
@@ -30,25 +30,25 @@
 //! Cost: 3 square roots (the quartic's, its root `γ`, and `γⁿ⁺¹`, which is also the drift's `γ`;
 //! `γⁿ` comes cached in the [`Particle`](super::Particle)), 5 divisions (with the drift's `1/γ`).
 
-use super::{LocalField, Pusher, StepFactors, implicit_gamma_squared};
-use crate::{Real, ThreeVector};
+use super::{Pusher, StepFactors, implicit_gamma_squared};
+use crate::{FieldTensor, Real, ThreeVector};
 
 /// The Vay pusher (Vay 2008), with its step factors precomputed.
 ///
 /// # Examples
 /// ```
-/// use fourforce::{Species, ThreeVector};
-/// use fourforce::push::{Particle, Pusher, UniformField, Vay};
+/// use fourforce::{FieldTensor, Species, ThreeVector};
+/// use fourforce::push::{Particle, Pusher, Vay};
 /// // A proton moving at exactly the E × B velocity keeps its momentum (Vay 2008).
 /// let beta = 0.6_f64;
-/// let fields = UniformField::try_new(
+/// let fields = FieldTensor::try_from_fields(
 ///     ThreeVector::new(0.0, beta * 299_792_458.0, 0.0), // E = βcB along y (V/m)
 ///     ThreeVector::new(0.0, 0.0, 1.0),                   // B = 1 T along z
 /// )?;
 /// let pusher = Vay::try_new(Species::PROTON, 1.0e-8)?;
 /// let mut p = Particle::try_new(ThreeVector::ZERO, ThreeVector::new(0.75, 0.0, 0.0), 0.0)?;
 /// pusher.try_run(&mut p, &fields, 100)?;
-/// assert!((p.momentum() - ThreeVector::new(0.75, 0.0, 0.0)).norm() < 1e-13);
+/// assert!((p.beta_gamma() - ThreeVector::new(0.75, 0.0, 0.0)).norm() < 1e-13);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -69,16 +69,17 @@ impl<T: Real> Pusher<T> for Vay<T> {
     }
 
     #[inline]
-    fn push_momentum(
+    fn push_beta_gamma(
         &self,
-        momentum: ThreeVector<T>,
+        beta_gamma: ThreeVector<T>,
         gamma: T,
-        field: &LocalField<T>,
+        field: &FieldTensor<T>,
     ) -> (ThreeVector<T>, T) {
-        let eps = field.electric * self.factors.kick;
-        let tau = field.magnetic * self.factors.rotation;
-        let kicked = momentum + eps + eps;
-        let u_prime = kicked + (momentum * (T::ONE / gamma)).cross(tau);
+        // ε = kick·E and τ = kick·cB: one factor for both halves of the field.
+        let eps = field.e() * self.factors.kick;
+        let tau = field.c_b() * self.factors.kick;
+        let kicked = beta_gamma + eps + eps;
+        let u_prime = kicked + (beta_gamma * (T::ONE / gamma)).cross(tau);
         let tau_sq = tau.norm_squared();
         // u* = u'·τ = (uⁿ + 2ε)·τ exactly, since (β × τ)·τ = 0: without the rounding of β × τ.
         let u_star = kicked.dot(tau);

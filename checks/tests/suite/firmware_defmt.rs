@@ -40,10 +40,8 @@ public_types! {
     Motion => [fourforce::Motion<f32>, fourforce::Motion<f64>],
     Particle => [fourforce::push::Particle<f32>, fourforce::push::Particle<f64>],
     StepFactors => [fourforce::push::StepFactors<f32>, fourforce::push::StepFactors<f64>],
-    LocalField => [fourforce::push::LocalField<f32>, fourforce::push::LocalField<f64>],
-    UniformField => [fourforce::push::UniformField<f32>, fourforce::push::UniformField<f64>],
     SumOfFields => [
-        fourforce::push::SumOfFields<fourforce::push::UniformField<f32>, fourforce::push::LocalField<f32>>,
+        fourforce::push::SumOfFields<fourforce::FieldTensor<f32>, fourforce::FieldTensor<f32>>,
     ],
     Boris => [fourforce::push::Boris<f32>, fourforce::push::Boris<f64>],
     Vay => [fourforce::push::Vay<f32>, fourforce::push::Vay<f64>],

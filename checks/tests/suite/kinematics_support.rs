@@ -120,11 +120,11 @@ pub fn read<T: Real>(m: &Motion<T>) -> [T; 13] {
         m.beta_gamma(),
         m.momentum(),
         m.total_energy(),
-        m.magnetic_rigidity().unwrap(),
-        m.electric_rigidity().unwrap(),
+        m.try_magnetic_rigidity().unwrap(),
+        m.try_electric_rigidity().unwrap(),
         m.speed(),
         m.flight_time_per_metre(),
-        optics::revolution_frequency(m, T::ONE).unwrap(),
+        optics::try_revolution_frequency(m, T::ONE).unwrap(),
         m.momentum_si(),
     ]
 }

@@ -13,10 +13,8 @@
 // Reference values are typed with all their published digits.
 #![allow(clippy::excessive_precision)]
 
-use fourforce::push::{
-    Boris, FieldSource, HigueraCary, LocalField, Particle, Pusher, UniformField, Vay,
-};
-use fourforce::{Real, Species, ThreeVector};
+use fourforce::push::{Boris, FieldSource, HigueraCary, Particle, Pusher, Vay};
+use fourforce::{FieldTensor, Real, Species, ThreeVector};
 
 const C: f64 = 299_792_458.0; // SI 2019, exact
 
@@ -166,7 +164,8 @@ fn measure_gyration<T: Real, P: Pusher<T>>(row: &GyrationRow) -> (f64, f64, f64,
     let steps_per_period = 2000_u32;
     let dt = row.period_s / f64::from(steps_per_period);
     let pusher = P::try_new(species, T::from_f64(dt)).unwrap();
-    let field = UniformField::try_new(ThreeVector::ZERO, v3::<T>(0.0, 0.0, row.tesla)).unwrap();
+    let field =
+        FieldTensor::try_from_fields(ThreeVector::ZERO, v3::<T>(0.0, 0.0, row.tesla)).unwrap();
     let mut p = Particle::try_new(
         ThreeVector::ZERO,
         v3::<T>(u * pitch.sin(), 0.0, u * pitch.cos()),
@@ -176,7 +175,7 @@ fn measure_gyration<T: Real, P: Pusher<T>>(row: &GyrationRow) -> (f64, f64, f64,
     pusher.try_start_leapfrog(&mut p, &field).unwrap();
     let (mut xmin, mut xmax, mut ymin, mut ymax) = (f64::MAX, f64::MIN, f64::MAX, f64::MIN);
     let phase_of = |p: &Particle<T>| {
-        let m = p.momentum();
+        let m = p.beta_gamma();
         m.y.to_f64().atan2(m.x.to_f64())
     };
     let mut phase = 0.0_f64;
@@ -254,14 +253,16 @@ fn discrete_orbit<T: Real + Bars, P: Pusher<T>>(scheme: &str, theta: f64, radius
     let pusher = P::try_new(species, dt).unwrap();
     // B such that tau = rotation * B = 1/2, i.e. omega_c dt = 1.
     let b = T::HALF / pusher.factors().rotation();
-    let field = LocalField::new(ThreeVector::ZERO, ThreeVector::new(T::ZERO, T::ZERO, b));
+    let field =
+        FieldTensor::try_from_fields(ThreeVector::ZERO, ThreeVector::new(T::ZERO, T::ZERO, b))
+            .unwrap();
     let mut p = Particle::try_new(ThreeVector::ZERO, v3::<T>(3.0, 0.0, 0.0), T::ZERO).unwrap();
     let mut pts = [[0.0_f64; 2]; 3];
     let mut worst_theta = 0.0_f64;
     for k in 0..60 {
-        let before = p.momentum();
+        let before = p.beta_gamma();
         pusher.try_step(&mut p, &field).unwrap();
-        let after = p.momentum();
+        let after = p.beta_gamma();
         let cross = before.x.to_f64() * after.y.to_f64() - before.y.to_f64() * after.x.to_f64();
         let dot = before.x.to_f64() * after.x.to_f64() + before.y.to_f64() * after.y.to_f64();
         let turn = cross.atan2(dot).abs();
@@ -294,11 +295,13 @@ fn norm_drift<T: Real + Bars, P: Pusher<T>>(scheme: &str) -> f64 {
     let pusher = P::try_new(Species::<T>::ELECTRON, T::from_f64(1.0e-12)).unwrap();
     // omega_c dt = 0.1: tau = 0.05
     let b = T::from_f64(0.05) / pusher.factors().rotation();
-    let field = LocalField::new(ThreeVector::ZERO, ThreeVector::new(T::ZERO, T::ZERO, b));
+    let field =
+        FieldTensor::try_from_fields(ThreeVector::ZERO, ThreeVector::new(T::ZERO, T::ZERO, b))
+            .unwrap();
     let mut p = Particle::try_new(ThreeVector::ZERO, v3::<T>(3.0, 0.0, 1.0), T::ZERO).unwrap();
-    let n0 = p.momentum().norm().to_f64();
+    let n0 = p.beta_gamma().norm().to_f64();
     pusher.try_run(&mut p, &field, 1_000_000).unwrap();
-    let drift = p.momentum().norm().to_f64() / n0 - 1.0;
+    let drift = p.beta_gamma().norm().to_f64() / n0 - 1.0;
     eprintln!(
         "|u| drift over 1e6 steps, {scheme} {}: {drift:+.2e}",
         T::NAME
@@ -319,7 +322,7 @@ fn force_free<T: Real, P: Pusher<T>>(gamma0: f64, omega_dt: f64) -> (f64, f64) {
     let beta = bg / gamma0;
     // E = beta c B along y, B along z, u along x: E + v x B = 0 exactly.
     let e = T::from_f64(beta) * (T::SPEED_OF_LIGHT * b);
-    let field = UniformField::try_new(
+    let field = FieldTensor::try_from_fields(
         ThreeVector::new(T::ZERO, e, T::ZERO),
         ThreeVector::new(T::ZERO, T::ZERO, b),
     )
@@ -332,7 +335,7 @@ fn force_free<T: Real, P: Pusher<T>>(gamma0: f64, omega_dt: f64) -> (f64, f64) {
         pusher.try_step(&mut p, &field).unwrap();
         offset = offset.max(p.position().y.to_f64().abs() / unit);
     }
-    let du = (p.momentum() - u0).norm().to_f64() / bg;
+    let du = (p.beta_gamma() - u0).norm().to_f64() / bg;
     (du, offset)
 }
 
@@ -401,7 +404,7 @@ fn crossed_from_rest<T: Real, P: Pusher<T>>(
     let pusher = P::try_new(species_as::<T>(row.species), T::from_f64(dt)).unwrap();
     // E along +y, B along +z: the drift is +x for either sign of charge; the excursion goes
     // toward +E for positive charges and -E for negative ones, hence |y|.
-    let field = UniformField::try_new(
+    let field = FieldTensor::try_from_fields(
         v3::<T>(0.0, row.e_v_per_m, 0.0),
         v3::<T>(0.0, 0.0, row.tesla),
     )
@@ -533,9 +536,11 @@ fn gap_table<T: Real + Bars, P: Pusher<T>>(scheme: &str) {
         let dt = row.transit_s / steps;
         let pusher = P::try_new(species, T::from_f64(dt)).unwrap();
         // the field accelerates along +x whatever the sign of the charge
-        let field =
-            UniformField::try_new(v3::<T>(row.field * q.signum(), 0.0, 0.0), ThreeVector::ZERO)
-                .unwrap();
+        let field = FieldTensor::try_from_fields(
+            v3::<T>(row.field * q.signum(), 0.0, 0.0),
+            ThreeVector::ZERO,
+        )
+        .unwrap();
         let u0 = beta_gamma(row.species, row.t0_ev);
         let mut p = Particle::try_new(ThreeVector::ZERO, v3::<T>(u0, 0.0, 0.0), T::ZERO).unwrap();
         pusher.try_start_leapfrog(&mut p, &field).unwrap();
@@ -548,7 +553,7 @@ fn gap_table<T: Real + Bars, P: Pusher<T>>(scheme: &str) {
         let frac = (row.gap_m - x0) / (x1 - x0);
         let t_cross = prev.time().to_f64() + frac * dt;
         let g1 = |q: &Particle<T>| {
-            let (u, g) = pusher.try_synchronised_momentum(q, &field).unwrap();
+            let (u, g) = pusher.try_synchronised_beta_gamma(q, &field).unwrap();
             let u2 = u.norm_squared().to_f64();
             (u2 / (g.to_f64() + 1.0), u2.sqrt() / g.to_f64())
         };
@@ -579,14 +584,14 @@ fn gap_table<T: Real + Bars, P: Pusher<T>>(scheme: &str) {
 fn pure_e_kick_is_linear<T: Real + Bars, P: Pusher<T>>() {
     let pusher = P::try_new(Species::<T>::PROTON, T::from_f64(1.0e-9)).unwrap();
     let e = v3::<T>(2.0e6, -1.0e6, 0.5e6);
-    let field = LocalField::new(e, ThreeVector::ZERO);
+    let field = FieldTensor::try_from_fields(e, ThreeVector::ZERO).unwrap();
     let mut p = Particle::at_rest(ThreeVector::ZERO);
     let n = 1000_u32;
     pusher.try_run(&mut p, &field, n).unwrap();
     let expected = e
         .to_array()
         .map(|c| c.to_f64() * 2.0 * pusher.factors().kick().to_f64() * f64::from(n));
-    let got = p.momentum();
+    let got = p.beta_gamma();
     let err = (got.x.to_f64() - expected[0])
         .abs()
         .max((got.y.to_f64() - expected[1]).abs())
@@ -721,7 +726,7 @@ fn force_free_exb_boris_fails_vay_and_higuera_cary_hold_f64() {
 #[test]
 fn vay_equals_boris_in_pure_magnetic_field() {
     // published-checks §7.2: with E = 0, Vay's gamma equals the conserved gamma.
-    let field = LocalField::new(ThreeVector::ZERO, v3::<f64>(0.2, -0.3, 1.0));
+    let field = FieldTensor::try_from_fields(ThreeVector::ZERO, v3::<f64>(0.2, -0.3, 1.0)).unwrap();
     let b = Boris::try_new(Species::PROTON, 1.0e-8).unwrap();
     let v = Vay::try_new(Species::PROTON, 1.0e-8).unwrap();
     let mut pb = Particle::try_new(ThreeVector::ZERO, v3(1.0, 2.0, 0.5), 0.0).unwrap();
@@ -730,7 +735,7 @@ fn vay_equals_boris_in_pure_magnetic_field() {
         b.try_step(&mut pb, &field).unwrap();
         v.try_step(&mut pv, &field).unwrap();
     }
-    let d = (pb.momentum() - pv.momentum()).norm() / pb.momentum().norm();
+    let d = (pb.beta_gamma() - pv.beta_gamma()).norm() / pb.beta_gamma().norm();
     assert!(d < 1e-12, "{d:e}");
 }
 
@@ -738,11 +743,11 @@ fn vay_equals_boris_in_pure_magnetic_field() {
 fn sense_of_rotation_positive_charge_turns_clockwise() {
     // published-checks §7.1 [J §12.2, from memory]: B = B z, positive charge with v along +x
     // has its centre at (0, -r, 0).
-    let field = LocalField::new(ThreeVector::ZERO, v3::<f64>(0.0, 0.0, 1.0));
+    let field = FieldTensor::try_from_fields(ThreeVector::ZERO, v3::<f64>(0.0, 0.0, 1.0)).unwrap();
     let pusher = HigueraCary::try_new(Species::PROTON, 1.0e-10).unwrap();
     let mut p = Particle::try_new(ThreeVector::ZERO, v3(0.1, 0.0, 0.0), 0.0).unwrap();
     pusher.try_run(&mut p, &field, 10).unwrap();
-    assert!(p.position().y < 0.0 && p.momentum().y < 0.0);
+    assert!(p.position().y < 0.0 && p.beta_gamma().y < 0.0);
     let mut e = Particle::try_new(ThreeVector::ZERO, v3(0.1, 0.0, 0.0), 0.0).unwrap();
     let pe = HigueraCary::try_new(Species::ELECTRON, 1.0e-13).unwrap();
     pe.try_run(&mut e, &field, 10).unwrap();
@@ -753,7 +758,7 @@ fn sense_of_rotation_positive_charge_turns_clockwise() {
 fn a_bad_field_is_refused_and_the_particle_is_kept() {
     let pusher = Boris::try_new(Species::<f32>::PROTON, 1.0e-9).unwrap();
     let bad = |_x: ThreeVector<f32>, _t: f32| {
-        LocalField::new(ThreeVector::new(f32::NAN, 0.0, 0.0), ThreeVector::ZERO)
+        FieldTensor::from_scaled(ThreeVector::new(f32::NAN, 0.0, 0.0), ThreeVector::ZERO)
     };
     let mut p = Particle::try_new(ThreeVector::ZERO, v3(0.1, 0.0, 0.0), 0.0).unwrap();
     let before = p;
@@ -762,30 +767,30 @@ fn a_bad_field_is_refused_and_the_particle_is_kept() {
         Err(fourforce::Error::NonFinite)
     );
     assert_eq!(p, before);
-    let huge = LocalField::new(ThreeVector::new(f32::MAX, 0.0, 0.0), ThreeVector::ZERO);
+    let huge = FieldTensor::from_scaled(ThreeVector::new(f32::MAX, 0.0, 0.0), ThreeVector::ZERO);
     assert!(pusher.try_step(&mut p, &huge).is_err());
     assert_eq!(p, before);
 }
 
 #[test]
 fn sums_of_sources_add() {
-    let a = UniformField::try_new(v3::<f64>(1.0, 0.0, 0.0), v3(0.0, 0.0, 0.5)).unwrap();
-    let ramp = |x: ThreeVector<f64>, t: f64| LocalField::new(x * 2.0, v3(0.0, t, 0.0));
+    let a = FieldTensor::from_scaled(v3::<f64>(1.0, 0.0, 0.0), v3(0.0, 0.0, 0.5));
+    let ramp = |x: ThreeVector<f64>, t: f64| FieldTensor::from_scaled(x * 2.0, v3(0.0, t, 0.0));
     let arr = [a, a, a];
     let total = a.plus(ramp).plus(arr);
     let f = total.field_at(v3(1.0, 2.0, 3.0), 4.0);
-    assert_eq!(f.electric, v3(1.0 + 2.0 + 3.0, 4.0, 6.0));
-    assert_eq!(f.magnetic, v3(0.0, 4.0, 2.0));
+    assert_eq!(f.e(), v3(1.0 + 2.0 + 3.0, 4.0, 6.0));
+    assert_eq!(f.c_b(), v3(0.0, 4.0, 2.0));
 }
 
 #[test]
 fn neutral_species_drifts_straight() {
     let neutron = Species::new(939_565_420.52_f64, 0.0);
-    let field = LocalField::new(v3(1.0e6, 0.0, 0.0), v3(0.0, 0.0, 1.0));
+    let field = FieldTensor::try_from_fields(v3(1.0e6, 0.0, 0.0), v3(0.0, 0.0, 1.0)).unwrap();
     let pusher = Boris::try_new(neutron, 1.0e-9).unwrap();
     let mut p = Particle::try_new(ThreeVector::ZERO, v3(0.0, 0.75, 0.0), 0.0).unwrap();
     pusher.try_run(&mut p, &field, 100).unwrap();
-    assert_eq!(p.momentum(), v3(0.0, 0.75, 0.0));
+    assert_eq!(p.beta_gamma(), v3(0.0, 0.75, 0.0));
     assert!(rel(p.position().y, 0.6 * C * 1.0e-7) < 1e-14);
 }
 
@@ -794,14 +799,15 @@ fn neutral_species_drifts_straight() {
 
 fn one_step_norm_change<T: Real, P: Pusher<T>>(u: [f64; 3], b: [f64; 3], omega_dt: f64) -> f64 {
     let pusher = P::try_new(Species::<T>::PROTON, T::from_f64(1.0e-9)).unwrap();
-    let field = LocalField::new(
+    let field = FieldTensor::try_from_fields(
         ThreeVector::ZERO,
         v3::<T>(b[0], b[1], b[2]) * (T::from_f64(omega_dt / 2.0) / pusher.factors().rotation()),
-    );
+    )
+    .unwrap();
     let mut p = Particle::try_new(ThreeVector::ZERO, v3::<T>(u[0], u[1], u[2]), T::ZERO).unwrap();
-    let n0 = p.momentum().norm().to_f64();
+    let n0 = p.beta_gamma().norm().to_f64();
     pusher.try_step(&mut p, &field).unwrap();
-    (p.momentum().norm().to_f64() / n0 - 1.0).abs() / T::EPSILON.to_f64()
+    (p.beta_gamma().norm().to_f64() / n0 - 1.0).abs() / T::EPSILON.to_f64()
 }
 
 fn force_free_random<T: Real, P: Pusher<T>>(beta: f64, b_dir: [f64; 3], omega_dt: f64) -> f64 {
@@ -822,14 +828,15 @@ fn force_free_random<T: Real, P: Pusher<T>>(beta: f64, b_dir: [f64; 3], omega_dt
     let b_vec = b_unit * b_mag;
     // E = -v x B, so that E + v x B = 0 (the particle moves at the E x B velocity)
     let e_vec = -(v_unit * (beta * T::SPEED_OF_LIGHT.to_f64())).cross(b_vec);
-    let field = LocalField::new(
+    let field = FieldTensor::try_from_fields(
         v3::<T>(e_vec.x, e_vec.y, e_vec.z),
         v3::<T>(b_vec.x, b_vec.y, b_vec.z),
-    );
+    )
+    .unwrap();
     let start = v3::<T>(u0.x, u0.y, u0.z);
     let mut p = Particle::try_new(ThreeVector::ZERO, start, T::ZERO).unwrap();
     pusher.try_run(&mut p, &field, 20).unwrap();
-    (p.momentum() - start).norm().to_f64() / start.norm().to_f64()
+    (p.beta_gamma() - start).norm().to_f64() / start.norm().to_f64()
 }
 
 proptest::proptest! {

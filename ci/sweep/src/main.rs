@@ -115,8 +115,8 @@ impl Door {
             Door::Beta => m.beta(),
             Door::BetaGamma => m.beta_gamma(),
             Door::Momentum => m.momentum(),
-            Door::MagneticRigidity => m.magnetic_rigidity().unwrap_or(f64::NAN),
-            Door::ElectricRigidity => m.electric_rigidity().unwrap_or(f64::NAN),
+            Door::MagneticRigidity => m.try_magnetic_rigidity().unwrap_or(f64::NAN),
+            Door::ElectricRigidity => m.try_electric_rigidity().unwrap_or(f64::NAN),
             Door::Speed => m.speed(),
             Door::FlightTime => m.flight_time(FLIGHT_LENGTH),
         }
@@ -136,8 +136,8 @@ fn quantities32(m: &Motion<f32>) -> [f32; N] {
         m.speed(),
         m.flight_time_per_metre(),
         m.flight_time(FLIGHT_LENGTH as f32),
-        m.magnetic_rigidity().unwrap_or(f32::NAN),
-        m.electric_rigidity().unwrap_or(f32::NAN),
+        m.try_magnetic_rigidity().unwrap_or(f32::NAN),
+        m.try_electric_rigidity().unwrap_or(f32::NAN),
     ]
 }
 
@@ -154,8 +154,8 @@ fn quantities64(m: &Motion<f64>) -> [f64; N] {
         m.speed(),
         m.flight_time_per_metre(),
         m.flight_time(FLIGHT_LENGTH),
-        m.magnetic_rigidity().unwrap_or(f64::NAN),
-        m.electric_rigidity().unwrap_or(f64::NAN),
+        m.try_magnetic_rigidity().unwrap_or(f64::NAN),
+        m.try_electric_rigidity().unwrap_or(f64::NAN),
     ]
 }
 

@@ -22,9 +22,9 @@
 //! 5. **push**: one Boris step through the corrector ([`Boris`]), whose kick the loop reports.
 
 use fourforce::check::{EnergyWindow, MovingWindow, Verdict};
-use fourforce::push::{Boris, Particle, Pusher, UniformField};
+use fourforce::push::{Boris, Particle, Pusher};
 use fourforce::steer::SteeringSetup;
-use fourforce::{Error, FieldTensor, FourVector, Motion, Real, Species, ThreeVector};
+use fourforce::{Error, FieldTensor, Motion, Real, Species, ThreeVector};
 
 /// The invented injector line.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -179,23 +179,21 @@ pub fn kinematics<T: Real>(machine: &Machine<T>, flight_time_s: T) -> Result<Mot
     )
 }
 
-/// The corrector's field as a tensor and as a field source, for the set point `corrector_tm`.
+/// The corrector's field for the set point `corrector_tm`: the tensor of the four-force, and
+/// the (uniform) field source of the pusher.
 #[inline]
 pub fn corrector_field<T: Real>(
     machine: &Machine<T>,
     corrector_tm: T,
-) -> Result<(FieldTensor<T>, UniformField<T>), Error> {
+) -> Result<FieldTensor<T>, Error> {
     let b = ThreeVector::new(T::ZERO, corrector_tm / machine.corrector_length_m, T::ZERO);
-    Ok((
-        FieldTensor::try_from_fields(ThreeVector::ZERO, b)?,
-        UniformField::try_new(ThreeVector::ZERO, b)?,
-    ))
+    FieldTensor::try_from_fields(ThreeVector::ZERO, b)
 }
 
-/// The beam's four-velocity `u = (γ, 0, 0, βγ)`, travelling along +z.
+/// The beam's direction of travel, +z.
 #[inline]
-pub fn four_velocity<T: Real>(motion: &Motion<T>) -> FourVector<T> {
-    FourVector::new(motion.gamma(), T::ZERO, T::ZERO, motion.beta_gamma())
+pub fn beam_axis<T: Real>() -> ThreeVector<T> {
+    ThreeVector::new(T::ZERO, T::ZERO, T::ONE)
 }
 
 /// One cycle: kinematics, plausibility, set point, four-force, push.
@@ -228,22 +226,21 @@ pub fn cycle<T: Real>(
     )?;
     let corrector_tm = command.setting_tm();
     // 4. Four-force on the beam inside the corrector.
-    let (tensor, source) = corrector_field(machine, corrector_tm)?;
+    let field = corrector_field(machine, corrector_tm)?;
     let charge = machine.window.species().charge();
-    let force = tensor.try_four_force(charge, four_velocity(&motion))?;
+    let force = field.try_four_force(charge, motion.try_four_velocity(beam_axis())?)?;
     // 5. One push step through the corrector, its length in one step.
     let pusher = Boris::try_new(
         machine.window.species(),
         machine.corrector_length_m / motion.speed(),
     )?;
-    let start = ThreeVector::new(T::ZERO, T::ZERO, motion.beta_gamma());
-    let mut particle = Particle::try_new(ThreeVector::ZERO, start, T::ZERO)?;
-    pusher.try_step(&mut particle, &source)?;
-    let u = particle.momentum();
+    let mut particle = Particle::try_from_motion(&motion, beam_axis(), ThreeVector::ZERO)?;
+    pusher.try_step(&mut particle, &field)?;
+    let u = particle.beta_gamma();
     Ok(Cycle {
         kinetic_ev: t,
         mean_kinetic_ev: state.energies.try_mean()?,
-        rigidity_tm: motion.magnetic_rigidity()?,
+        rigidity_tm: motion.try_magnetic_rigidity()?,
         corrector_tm,
         force_x_ev_per_m: force.space.x,
         kick_rad: u.x / u.z,

@@ -94,14 +94,14 @@ fn measure_parts(
     });
 
     // The four-force of the corrector's field on the nominal beam.
-    let (tensor, source) =
-        control::corrector_field(machine, -3.0e-3).map_err(|_| "corrector field")?;
-    let u = control::four_velocity(&nominal);
+    let field = control::corrector_field(machine, -3.0e-3).map_err(|_| "corrector field")?;
+    let axis = control::beam_axis();
+    let u = nominal.try_four_velocity(axis).map_err(|_| "four-velocity")?;
     let species = machine.window.species();
     let q = species.charge();
     bench.measure(out, "four_force", CALLS, || {
         for _ in 0..CALLS {
-            black_box(black_box(&tensor).four_force(black_box(q), black_box(u)));
+            black_box(black_box(&field).four_force(black_box(q), black_box(u)));
         }
     });
 
@@ -115,11 +115,11 @@ fn measure_parts(
 
     // One Boris step through the corrector, repeated.
     let pusher = Boris::try_new(species, dt).map_err(|_| "pusher")?;
-    let mut particle =
-        Particle::try_new(fourforce::ThreeVector::ZERO, u.space, 0.0).map_err(|_| "particle")?;
+    let mut particle = Particle::try_from_motion(&nominal, axis, fourforce::ThreeVector::ZERO)
+        .map_err(|_| "particle")?;
     bench.measure(out, "push", CALLS, || {
         for _ in 0..CALLS {
-            let r = black_box(&pusher).try_step(black_box(&mut particle), black_box(&source));
+            let r = black_box(&pusher).try_step(black_box(&mut particle), black_box(&field));
             black_box(r.is_ok());
         }
     });

@@ -55,31 +55,31 @@ fn main() -> ! {
         sweep(|s, t| ok(motion(s, t).map(|m| m.beta())))
     });
     sum += b.measure(&mut out, "fast_beta", CALLS, || {
-        sweep(|s, t| ok(fast::beta(s, t)))
+        sweep(|s, t| ok(fast::try_beta(s, t)))
     });
     sum += b.measure(&mut out, "libm_pc", CALLS, || {
         sweep(|s, t| ok(motion(s, t).map(|m| m.momentum())))
     });
     sum += b.measure(&mut out, "fast_pc", CALLS, || {
-        sweep(|s, t| ok(fast::momentum(s, t)))
+        sweep(|s, t| ok(fast::try_momentum(s, t)))
     });
     sum += b.measure(&mut out, "libm_brho", CALLS, || {
-        sweep(|s, t| ok(motion(s, t).and_then(|m| m.magnetic_rigidity())))
+        sweep(|s, t| ok(motion(s, t).and_then(|m| m.try_magnetic_rigidity())))
     });
     sum += b.measure(&mut out, "fast_brho", CALLS, || {
-        sweep(|s, t| ok(fast::magnetic_rigidity(s, t)))
+        sweep(|s, t| ok(fast::try_magnetic_rigidity(s, t)))
     });
     sum += b.measure(&mut out, "libm_v", CALLS, || {
         sweep(|s, t| ok(motion(s, t).map(|m| m.speed())))
     });
     sum += b.measure(&mut out, "fast_v", CALLS, || {
-        sweep(|s, t| ok(fast::speed(s, t)))
+        sweep(|s, t| ok(fast::try_speed(s, t)))
     });
     sum += b.measure(&mut out, "libm_tof", CALLS, || {
         sweep(|s, t| ok(motion(s, t).map(|m| m.flight_time(LENGTH_M))))
     });
     sum += b.measure(&mut out, "fast_tof", CALLS, || {
-        sweep(|s, t| ok(fast::flight_time(s, t, LENGTH_M)))
+        sweep(|s, t| ok(fast::try_flight_time(s, t, LENGTH_M)))
     });
     out.str("stack ").u32(board::stack_high_water()).nl();
     // Every result is finite and positive, so the sum is too.
