@@ -96,7 +96,9 @@ fn measure_parts(
     // The four-force of the corrector's field on the nominal beam.
     let field = control::corrector_field(machine, -3.0e-3).map_err(|_| "corrector field")?;
     let axis = control::beam_axis();
-    let u = nominal.try_four_velocity(axis).map_err(|_| "four-velocity")?;
+    let u = nominal
+        .try_four_velocity(axis)
+        .map_err(|_| "four-velocity")?;
     let species = machine.window.species();
     let q = species.charge();
     bench.measure(out, "four_force", CALLS, || {
