@@ -82,14 +82,14 @@ pub struct Covector<T: Real> {
 
 /// The Minkowski metric `g_μν = g^μν = diag(+1, −1, −1, −1)`.
 ///
-/// A namespace for the metric's operations; the same operations are methods of
-/// [`FourVector`] and [`Covector`].
+/// Its signature and components; lowering, raising and the inner product are methods of
+/// [`FourVector`] and [`Covector`] (`x.lower()`, `k.raise()`, `a.inner(b)`).
 ///
 /// # Examples
 /// ```
 /// use fourforce::{FourVector, Metric};
 /// let x = FourVector::new(1.0_f32, 2.0, 3.0, 4.0);
-/// assert_eq!(Metric::raise(Metric::lower(x)), x);
+/// assert_eq!(x.lower().raise(), x);
 /// assert_eq!(Metric::SIGNATURE, [1, -1, -1, -1]);
 /// ```
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
