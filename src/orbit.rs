@@ -81,7 +81,7 @@
 
 use crate::check::MovingWindow;
 use crate::svd;
-use crate::{Error, Real, finite};
+use crate::{Error, Real, try_finite};
 
 /// The response of the monitor readings to the corrector settings at one energy.
 ///
@@ -123,11 +123,11 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
     ) -> Result<Self, Error> {
         for column in &per_kick_m_per_rad {
             for x in column.as_flattened() {
-                finite(*x)?;
+                try_finite(*x)?;
             }
         }
         for k in &kick_per_setting {
-            if finite(*k)? == T::ZERO {
+            if try_finite(*k)? == T::ZERO {
                 return Err(Error::ZeroField);
             }
         }
@@ -256,10 +256,10 @@ impl<T: Real> Monitor<T> {
     /// assert_eq!(Monitor::try_new(0.0_f64, 1.0), Err(Error::NonPositiveLength));
     /// ```
     pub fn try_new(range_m: T, weight: T) -> Result<Self, Error> {
-        if finite(range_m)? <= T::ZERO {
+        if try_finite(range_m)? <= T::ZERO {
             return Err(Error::NonPositiveLength);
         }
-        if finite(weight)? < T::ZERO {
+        if try_finite(weight)? < T::ZERO {
             return Err(Error::NegativeMagnitude);
         }
         Ok(Self { range_m, weight })
@@ -323,7 +323,7 @@ impl<T: Real> Corrector<T> {
     /// assert_eq!(Corrector::try_new(1.0_f64, -1.0, 0.1), Err(Error::InvalidRange));
     /// ```
     pub fn try_new(min: T, max: T, max_step: T) -> Result<Self, Error> {
-        let (min, max, max_step) = (finite(min)?, finite(max)?, finite(max_step)?);
+        let (min, max, max_step) = (try_finite(min)?, try_finite(max)?, try_finite(max_step)?);
         if min > max {
             return Err(Error::InvalidRange);
         }
@@ -406,8 +406,11 @@ impl<T: Real> Tuning<T> {
     /// assert_eq!(Tuning::try_new(1.0_f64, 0.0, 1.0), Err(Error::InvalidRange));
     /// ```
     pub fn try_new(gain: T, regularisation: T, cutoff: T) -> Result<Self, Error> {
-        let (gain, regularisation, cutoff) =
-            (finite(gain)?, finite(regularisation)?, finite(cutoff)?);
+        let (gain, regularisation, cutoff) = (
+            try_finite(gain)?,
+            try_finite(regularisation)?,
+            try_finite(cutoff)?,
+        );
         if gain <= T::ZERO || gain >= T::TWO {
             return Err(Error::GainOutOfRange);
         }
@@ -898,7 +901,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             .zip(&self.correctors)
             .enumerate()
         {
-            let scaled = finite(finite(*s)? * (*old / *new))?;
+            let scaled = try_finite(try_finite(*s)? * (*old / *new))?;
             *s = scaled.max(c.min).min(c.max);
             if *s != scaled {
                 held |= 1 << j;
@@ -940,7 +943,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     ) -> Result<Outcome, Error> {
         let mut now = *settings;
         for (s, c) in now.iter_mut().zip(&self.correctors) {
-            *s = finite(*s)?.max(c.min).min(c.max);
+            *s = try_finite(*s)?.max(c.min).min(c.max);
         }
         self.watch(readings);
         let mut decomposed = false;

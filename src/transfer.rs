@@ -60,18 +60,18 @@
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
-use crate::{Error, Motion, Real, finite};
+use crate::{Error, Motion, Real, try_finite};
 
 /// Bρ of the reference, in T m.
 #[inline]
 fn magnetic_rigidity<T: Real>(motion: &Motion<T>) -> Result<T, Error> {
-    motion.magnetic_rigidity()
+    motion.try_magnetic_rigidity()
 }
 
 /// Eρ of the reference, in V.
 #[inline]
 fn electric_rigidity<T: Real>(motion: &Motion<T>) -> Result<T, Error> {
-    motion.electric_rigidity()
+    motion.try_electric_rigidity()
 }
 
 /// `+1` or `−1`, the sign of the charge.
@@ -272,7 +272,7 @@ impl<T: Real> TransferMap<T> {
         gradient_t_per_m: T,
     ) -> Result<Self, Error> {
         let l = positive(length_m)?;
-        let g = finite(gradient_t_per_m)?;
+        let g = try_finite(gradient_t_per_m)?;
         let k = fits(charge_sign(motion) * g / magnetic_rigidity(motion)?)?;
         Self::thick_lens(motion, k, l)
     }
@@ -307,7 +307,7 @@ impl<T: Real> TransferMap<T> {
         motion: &Motion<T>,
         integrated_gradient_t: T,
     ) -> Result<Self, Error> {
-        let gl = finite(integrated_gradient_t)?;
+        let gl = try_finite(integrated_gradient_t)?;
         let inverse_focal = fits(charge_sign(motion) * gl / magnetic_rigidity(motion)?)?;
         Ok(Self::uncoupled(
             [[T::ONE, T::ZERO], [-inverse_focal, T::ONE]],
@@ -343,7 +343,7 @@ impl<T: Real> TransferMap<T> {
         aperture_radius_m: T,
     ) -> Result<Self, Error> {
         let l = positive(length_m)?;
-        let v = finite(voltage_v)?;
+        let v = try_finite(voltage_v)?;
         let a = positive(aperture_radius_m)?;
         let k = fits(charge_sign(motion) * ((v + v) / (a * a)) / electric_rigidity(motion)?)?;
         Self::thick_lens(motion, k, l)
@@ -383,7 +383,7 @@ impl<T: Real> TransferMap<T> {
         exit_rad: T,
     ) -> Result<Self, Error> {
         let l = positive(length_m)?;
-        let theta = finite(angle_rad)?;
+        let theta = try_finite(angle_rad)?;
         let (e1, e2) = (edge_angle(entry_rad)?, edge_angle(exit_rad)?);
         let s = theta.sin();
         let (c1, c2) = (e1.cos(), e2.cos());
@@ -453,7 +453,7 @@ impl<T: Real> TransferMap<T> {
     /// ```
     pub fn try_solenoid(motion: &Motion<T>, length_m: T, field_t: T) -> Result<Self, Error> {
         let l = positive(length_m)?;
-        let b = finite(field_t)?;
+        let b = try_finite(field_t)?;
         let brho = magnetic_rigidity(motion)?;
         let kappa = fits(charge_sign(motion) * b / (brho + brho))?;
         let phi = kappa * l;
@@ -496,7 +496,7 @@ impl<T: Real> TransferMap<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_gap(motion: &Motion<T>, voltage_v: T) -> Result<(Self, Motion<T>), Error> {
-        let v = finite(voltage_v)?;
+        let v = try_finite(voltage_v)?;
         let species = motion.species();
         let gain = species.charge() * v;
         if gain == T::ZERO {
@@ -697,7 +697,7 @@ fn column<T: Real>(v: &[T; 4], j: usize) -> T {
 
 /// A finite length ≥ 0.
 fn nonnegative<T: Real>(length_m: T) -> Result<T, Error> {
-    if finite(length_m)? < T::ZERO {
+    if try_finite(length_m)? < T::ZERO {
         Err(Error::NonPositiveLength)
     } else {
         Ok(length_m)
@@ -706,7 +706,7 @@ fn nonnegative<T: Real>(length_m: T) -> Result<T, Error> {
 
 /// A finite length > 0.
 fn positive<T: Real>(length_m: T) -> Result<T, Error> {
-    if finite(length_m)? <= T::ZERO {
+    if try_finite(length_m)? <= T::ZERO {
         Err(Error::NonPositiveLength)
     } else {
         Ok(length_m)
@@ -715,7 +715,7 @@ fn positive<T: Real>(length_m: T) -> Result<T, Error> {
 
 /// A finite pole-face angle below π/2 in magnitude.
 fn edge_angle<T: Real>(angle_rad: T) -> Result<T, Error> {
-    if finite(angle_rad)?.abs() >= T::PI * T::HALF {
+    if try_finite(angle_rad)?.abs() >= T::PI * T::HALF {
         Err(Error::AngleOutOfRange)
     } else {
         Ok(angle_rad)

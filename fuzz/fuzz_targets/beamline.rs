@@ -1,5 +1,5 @@
 //! Door: beam-line elements and transport from outside numbers (`Element::try_check`,
-//! `BeamLine::try_push`, `BeamState::try_new`, `try_transport`, `try_state_after`, `states`).
+//! `BeamLine::try_push`, `BeamState::try_new`, `try_transport`, `states`).
 #![no_main]
 
 use fourforce::beamline::{BeamLine, BeamState, Element, KickDirection};

@@ -1,5 +1,5 @@
 //! Door: the pushers from outside numbers (`StepFactors::try_new` through each scheme's
-//! `try_new`, `Particle::try_new`, `UniformField::try_new`, `try_step`, `try_run`,
+//! `try_new`, `Particle::try_new`, `FieldTensor::try_from_fields`, `try_step`, `try_run`,
 //! `try_start_leapfrog`, `try_synchronised_beta_gamma`), for Boris, Vay and Higuera-Cary.
 #![no_main]
 
