@@ -7,7 +7,9 @@
 //!
 //! # For firmware authors
 //! The `f32` path never touches `f64` at run time: constants are converted at compile time, and
-//! every function maps to its single-precision `libm` routine (`sqrtf`, `hypotf`, ...).
+//! every function maps to its single-precision `libm` routine (`hypotf`, `sinf`, ...), except the
+//! square root on hard-float Arm targets, which is the FPU's `vsqrt.f32` (correctly rounded like
+//! libm's `sqrtf`, so the results are bit-identical).
 //!
 //! # Examples
 //! ```
@@ -204,9 +206,18 @@ pub trait Real:
     fn scalbn(self, n: i32) -> Self;
 }
 
+// The `f32` square root: the FPU's `vsqrt.f32` on hard-float Arm targets (through the crate
+// `fourforce-fpu`, which holds the one inline-assembly block so that this crate stays free of
+// `unsafe`), `libm::sqrtf` everywhere else. Both are correctly rounded, so the results are
+// bit-identical (checked on the emulated Cortex-M4F by the firmware example).
+#[cfg(all(target_arch = "arm", target_abi = "eabihf"))]
+use fourforce_fpu::sqrtf;
+#[cfg(not(all(target_arch = "arm", target_abi = "eabihf")))]
+use libm::sqrtf;
+
 macro_rules! impl_real {
     ($t:ident, $bits:ty, $digits:expr, $c_hi:expr, $c_lo:expr,
-     $sqrt:ident, $hypot:ident, $fabs:ident, $fma:ident, $sin:ident, $cos:ident, $tan:ident,
+     $sqrt:path, $hypot:ident, $fabs:ident, $fma:ident, $sin:ident, $cos:ident, $tan:ident,
      $asin:ident, $acos:ident, $atan:ident, $atan2:ident, $sinh:ident, $cosh:ident,
      $tanh:ident, $atanh:ident, $exp:ident, $expm1:ident, $log:ident, $log1p:ident,
      $round:ident, $floor:ident, $copysign:ident, $fmin:ident, $fmax:ident, $ilogb:ident,
@@ -258,7 +269,7 @@ macro_rules! impl_real {
             }
             #[inline(always)]
             fn sqrt(self) -> Self {
-                libm::$sqrt(self)
+                $sqrt(self)
             }
             #[inline(always)]
             fn hypot(self, other: Self) -> Self {
@@ -419,7 +430,7 @@ impl_real!(
     53,
     consts::SPEED_OF_LIGHT,
     0.0,
-    sqrt,
+    libm::sqrt,
     hypot,
     fabs,
     fma,
