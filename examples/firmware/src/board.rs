@@ -89,6 +89,34 @@ impl Bench {
         calls: u32,
         f: impl FnOnce() -> R,
     ) -> R {
+        self.interval(out, name, calls, "", f)
+    }
+
+    /// As [`measure`](Self::measure), and the interval's instructions per call become the field
+    /// `<name>=<n>` of ci/firmware's figures line (`bench <interval> <name> <calls> figure`).
+    /// Fields appear in program order; a name must be unique in the run.
+    #[inline(always)]
+    pub fn figure<R>(&mut self, out: &mut Out, name: &str, calls: u32, f: impl FnOnce() -> R) -> R {
+        self.interval(out, name, calls, " figure", f)
+    }
+
+    /// One interval of the worst-case table: `f` is a single call of the function `name` on one
+    /// adversarial input; ci/firmware keeps the largest count per name
+    /// (`bench <interval> <name> 1 worst`) and compares it with the committed table.
+    #[inline(always)]
+    pub fn worst<R>(&mut self, out: &mut Out, name: &str, f: impl FnOnce() -> R) -> R {
+        self.interval(out, name, 1, " worst", f)
+    }
+
+    #[inline(always)]
+    fn interval<R>(
+        &mut self,
+        out: &mut Out,
+        name: &str,
+        calls: u32,
+        tag: &str,
+        f: impl FnOnce() -> R,
+    ) -> R {
         self.intervals += 1;
         let id = self.intervals;
         bench_start(id);
@@ -100,6 +128,7 @@ impl Bench {
             .str(name)
             .str(" ")
             .u32(calls)
+            .str(tag)
             .nl();
         r
     }

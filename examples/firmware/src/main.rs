@@ -65,7 +65,7 @@ fn measure_parts(
     machine: &Machine<f32>,
 ) -> Result<(), &'static str> {
     // Kinematics from the measured time of flight, one call per reading.
-    bench.measure(out, "convert", CALLS, || {
+    bench.figure(out, "convert", CALLS, || {
         for case in &CASES {
             let m = control::kinematics(black_box(machine), black_box(case.reading.flight_time_s));
             black_box(m.ok());
@@ -101,7 +101,7 @@ fn measure_parts(
         .map_err(|_| "four-velocity")?;
     let species = machine.window.species();
     let q = species.charge();
-    bench.measure(out, "four_force", CALLS, || {
+    bench.figure(out, "four_force", CALLS, || {
         for _ in 0..CALLS {
             black_box(black_box(&field).four_force(black_box(q), black_box(u)));
         }
@@ -119,7 +119,7 @@ fn measure_parts(
     let pusher = Boris::try_new(species, dt).map_err(|_| "pusher")?;
     let mut particle = Particle::try_from_motion(&nominal, axis, fourforce::ThreeVector::ZERO)
         .map_err(|_| "particle")?;
-    bench.measure(out, "push", CALLS, || {
+    bench.figure(out, "push", CALLS, || {
         for _ in 0..CALLS {
             let r = black_box(&pusher).try_step(black_box(&mut particle), black_box(&field));
             black_box(r.is_ok());
@@ -132,7 +132,7 @@ fn measure_parts(
 #[inline(never)]
 fn measure_cycle(out: &mut Out, bench: &mut Bench, machine: &Machine<f32>) {
     let mut state = LoopState::default();
-    bench.measure(out, "cycle", CALLS, || {
+    bench.figure(out, "cycle", CALLS, || {
         for case in &CASES {
             let r = control::cycle(black_box(machine), &mut state, black_box(case.reading));
             black_box(r.is_ok());

@@ -1,11 +1,15 @@
 //! Instructions per call of the kinematics from a kinetic energy on the emulated chip: the
-//! crate's exact path (libm's `sqrtf`, through `Motion`) against the micromath fast path
-//! (`fourforce::fast`). ci/firmware turns the counts into the README table.
+//! crate's exact path (through `Motion`; its square root is the FPU's on the M4F, libm's `sqrtf`
+//! on the M0) against the micromath fast path (`fourforce::fast`). ci/firmware turns the counts
+//! into the table of docs/performance.md. Also checks that the crate's square root equals libm's
+//! `sqrtf` bit for bit (`sqrt.rs`).
 #![no_std]
 #![no_main]
 
 #[path = "../board.rs"]
 mod board;
+#[path = "../sqrt.rs"]
+mod sqrt;
 
 use board::{Bench, Out};
 use core::hint::black_box;
@@ -83,7 +87,7 @@ fn main() -> ! {
     });
     out.str("stack ").u32(board::stack_high_water()).nl();
     // Every result is finite and positive, so the sum is too.
-    let ok = sum.is_finite() && sum > 0.0;
+    let ok = sqrt::check(&mut out) && sum.is_finite() && sum > 0.0;
     out.str(if ok { "PASS" } else { "FAIL" }).nl();
     board::exit(ok)
 }
