@@ -3,7 +3,7 @@
 /// Defines the aliases of every public generic type for one scalar type.
 macro_rules! aliases {
     ($t:ident) => {
-        use crate::{beamline, check, push, steer};
+        use crate::{beamline, check, push, steer, witness};
 
         #[doc = concat!("[`Species`](crate::Species) in `", stringify!($t), "`.")]
         pub type Species = crate::Species<$t>;
@@ -47,5 +47,13 @@ macro_rules! aliases {
         pub type SteeringSetup = steer::SteeringSetup<$t>;
         #[doc = concat!("[`SteeringCommand`](crate::steer::SteeringCommand) in `", stringify!($t), "`.")]
         pub type SteeringCommand = steer::SteeringCommand<$t>;
+        #[doc = concat!("[`Reading`](crate::witness::Reading) in `", stringify!($t), "`.")]
+        pub type Reading = witness::Reading<$t>;
+        #[doc = concat!("[`Estimate`](crate::witness::Estimate) in `", stringify!($t), "`.")]
+        pub type Estimate = witness::Estimate<$t>;
+        #[doc = concat!("[`Watch`](crate::witness::Watch) of capacity `N` in `", stringify!($t), "`.")]
+        pub type Watch<const N: usize> = witness::Watch<$t, N>;
+        #[doc = concat!("[`Assessment`](crate::witness::Assessment) of capacity `N` in `", stringify!($t), "`.")]
+        pub type Assessment<const N: usize> = witness::Assessment<$t, N>;
     };
 }

@@ -73,6 +73,11 @@ pub enum Error {
     OutsideCalibration,
     /// Calibration points were not strictly increasing in both coordinates.
     NotMonotone,
+    // --- witness ---
+    /// A standard uncertainty was zero, negative or not finite.
+    NonPositiveUncertainty,
+    /// A speed was zero where a moving particle is needed (a speed witness of a beam at rest).
+    ZeroSpeed,
 }
 
 impl fmt::Display for Error {
@@ -100,6 +105,8 @@ impl fmt::Display for Error {
             Error::NotConverged => "decomposition did not converge",
             Error::OutsideCalibration => "value is outside the calibration table",
             Error::NotMonotone => "calibration points are not strictly increasing",
+            Error::NonPositiveUncertainty => "standard uncertainty is zero or negative",
+            Error::ZeroSpeed => "speed is zero where a moving particle is needed",
         })
     }
 }
@@ -146,6 +153,8 @@ mod tests {
             Error::NotConverged,
             Error::OutsideCalibration,
             Error::NotMonotone,
+            Error::NonPositiveUncertainty,
+            Error::ZeroSpeed,
         ];
         let messages: Vec<_> = all.iter().map(ToString::to_string).collect();
         for (i, m) in messages.iter().enumerate() {

@@ -102,6 +102,7 @@ pub mod orbit;
 pub mod push;
 pub mod steer;
 mod svd;
+pub mod witness;
 
 // --- integrations and fast paths ---
 #[cfg(feature = "micromath")]

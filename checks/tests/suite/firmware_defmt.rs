@@ -58,6 +58,14 @@ public_types! {
     MovingWindow => [fourforce::check::MovingWindow<f32, 8>, fourforce::check::MovingWindow<f64, 32>],
     SteeringSetup => [fourforce::steer::SteeringSetup<f32>, fourforce::steer::SteeringSetup<f64>],
     SteeringCommand => [fourforce::steer::SteeringCommand<f32>, fourforce::steer::SteeringCommand<f64>],
+    // witness
+    Reading => [fourforce::witness::Reading<f32>, fourforce::witness::Reading<f64>],
+    Estimate => [fourforce::witness::Estimate<f32>, fourforce::witness::Estimate<f64>],
+    Alpha => [fourforce::witness::Alpha],
+    ReadingError => [fourforce::witness::ReadingError],
+    Assessment => [fourforce::witness::Assessment<f32, 4>, fourforce::witness::Assessment<f64, 16>],
+    SpeciesVerdict => [fourforce::witness::SpeciesVerdict],
+    Watch => [fourforce::witness::Watch<f32, 4>, fourforce::witness::Watch<f64, 16>],
 }
 
 /// `pub` types that are not reachable from outside the crate (none so far).

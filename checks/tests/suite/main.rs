@@ -26,3 +26,4 @@ mod orbit;
 mod reliability_mutants;
 mod reliability_regressions;
 mod transfer;
+mod witness;
