@@ -145,7 +145,7 @@ pub enum Reading<T: Real> {
 /// `x`, or [`Error::NonPositiveUncertainty`] unless it is finite and positive.
 #[inline]
 fn uncertainty<T: Real>(sigma: T) -> Result<T, Error> {
-    if crate::finite(sigma)? > T::ZERO {
+    if crate::try_finite(sigma)? > T::ZERO {
         Ok(sigma)
     } else {
         Err(Error::NonPositiveUncertainty)
@@ -155,7 +155,7 @@ fn uncertainty<T: Real>(sigma: T) -> Result<T, Error> {
 /// A field magnitude `> 0` or the error naming what is wrong with it.
 #[inline]
 fn field<T: Real>(x: T) -> Result<T, Error> {
-    let x = crate::finite(x)?;
+    let x = crate::try_finite(x)?;
     if x > T::ZERO {
         Ok(x)
     } else if x == T::ZERO {
@@ -168,7 +168,7 @@ fn field<T: Real>(x: T) -> Result<T, Error> {
 /// A radius `> 0`.
 #[inline]
 fn radius<T: Real>(x: T) -> Result<T, Error> {
-    if crate::finite(x)? > T::ZERO {
+    if crate::try_finite(x)? > T::ZERO {
         Ok(x)
     } else {
         Err(Error::NonPositiveLength)
@@ -223,7 +223,7 @@ impl<T: Real> Reading<T> {
                 kinetic_ev,
                 sigma_ev,
             } => {
-                let t = crate::finite(kinetic_ev)?;
+                let t = crate::try_finite(kinetic_ev)?;
                 if t < T::ZERO {
                     return Err(Error::NegativeEnergy);
                 }
