@@ -400,8 +400,8 @@ fn propagation_against_a_monte_carlo() {
     for (s, t) in states {
         let m = Motion::try_from_kinetic_energy(s, t).unwrap();
         let (tof, v) = (m.flight_time(3.0), m.speed());
-        let brho = m.magnetic_rigidity().unwrap();
-        let erho = m.electric_rigidity().unwrap();
+        let brho = m.try_magnetic_rigidity().unwrap();
+        let erho = m.try_electric_rigidity().unwrap();
         let build = |kind: usize, x: f64, sx: f64| match kind {
             0 => Reading::FlightTime {
                 time_s: x,
@@ -458,7 +458,7 @@ fn four_witnesses<T: Real>(fault: Option<(usize, f64)>) -> Watch<T, 4> {
     let exact: [(f64, f64); 4] = [
         (45.0e6, 45.0e3),
         (m.flight_time(6.0), 0.0),
-        (m.magnetic_rigidity().unwrap() / 1.8, 0.0),
+        (m.try_magnetic_rigidity().unwrap() / 1.8, 0.0),
         (m.speed(), 0.0),
     ];
     for (i, (x, sx)) in exact.into_iter().enumerate() {
@@ -588,7 +588,7 @@ fn species_check<T: Real>() {
     ];
     let truth = candidates64[1];
     let m = Motion::try_from_kinetic_energy(truth, 180.0e3).unwrap();
-    let b = m.magnetic_rigidity().unwrap() / 0.6;
+    let b = m.try_magnetic_rigidity().unwrap() / 0.6;
     let t = m.flight_time(1.5);
     let candidates = candidates64.map(|c| {
         Species::<T>::try_new(T::from_f64(c.rest_energy()), T::from_f64(c.charge())).unwrap()
