@@ -3,7 +3,7 @@
 /// Defines the aliases of every public generic type for one scalar type.
 macro_rules! aliases {
     ($t:ident) => {
-        use crate::{beamline, check, push, steer, witness};
+        use crate::{beamline, check, push, steer, transfer, witness};
 
         #[doc = concat!("[`Species`](crate::Species) in `", stringify!($t), "`.")]
         pub type Species = crate::Species<$t>;
@@ -37,6 +37,18 @@ macro_rules! aliases {
         pub type BeamState = beamline::BeamState<$t>;
         #[doc = concat!("[`BeamLine`](crate::beamline::BeamLine) of capacity `N` in `", stringify!($t), "`.")]
         pub type BeamLine<const N: usize> = beamline::BeamLine<$t, N>;
+        #[doc = concat!("[`TransferMap`](crate::transfer::TransferMap) in `", stringify!($t), "`.")]
+        pub type TransferMap = transfer::TransferMap<$t>;
+        #[doc = concat!("[`Twiss`](crate::transfer::Twiss) in `", stringify!($t), "`.")]
+        pub type Twiss = transfer::Twiss<$t>;
+        #[doc = concat!("[`Envelope`](crate::transfer::Envelope) in `", stringify!($t), "`.")]
+        pub type Envelope = transfer::Envelope<$t>;
+        #[doc = concat!("[`CellOptics`](crate::transfer::CellOptics) in `", stringify!($t), "`.")]
+        pub type CellOptics = transfer::CellOptics<$t>;
+        #[doc = concat!("[`Aperture`](crate::beamline::Aperture) in `", stringify!($t), "`.")]
+        pub type Aperture = beamline::Aperture<$t>;
+        #[doc = concat!("[`ApertureVerdict`](crate::beamline::ApertureVerdict) in `", stringify!($t), "`.")]
+        pub type ApertureVerdict = beamline::ApertureVerdict<$t>;
         #[doc = concat!("[`EnergyWindow`](crate::check::EnergyWindow) in `", stringify!($t), "`.")]
         pub type EnergyWindow = check::EnergyWindow<$t>;
         #[doc = concat!("[`Verdict`](crate::check::Verdict) in `", stringify!($t), "`.")]

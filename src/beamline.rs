@@ -20,6 +20,17 @@
 //! | [`Element::HardEdgeDipole`] | exact circular arc in the horizontal plane over a length `L` of the axis |
 //! | [`Element::AcceleratingGap`] | `T += Q V` (the crate's sign convention); slopes scale by `p_s/p_s'` (transverse momentum kept) |
 //! | [`Element::ElectrostaticKick`] | slope `+= θ`, `θ = ±∫E dl / Eρ` (small angle, energy unchanged) |
+//! | [`Element::Quadrupole`], [`Element::ThinQuadrupole`], [`Element::ElectrostaticQuadrupole`], [`Element::Solenoid`] | the element's first-order map at the particle's own rigidity; time `+= L/(βc)` |
+//! | [`Element::SectorDipole`] | the first-order map of the bent axis, the particle taken as the dipole's reference |
+//! | [`Element::Monitor`] | nothing (a marker where a position is read) |
+//!
+//! # Optics
+//! The line's first-order map ([`BeamLine::try_map`], [`BeamLine::try_map_of`] for elements
+//! `i..j`), the envelopes along it ([`BeamLine::envelopes`]) and the aperture verdict
+//! ([`BeamLine::check_aperture`]) come from [`transfer`](crate::transfer): each element's [`TransferMap`] at the
+//! reference energy of its place, which the gaps before it have changed. About the line's axis
+//! the thin kicks are the identity and the straight-axis [`Element::HardEdgeDipole`] a drift at
+//! first order: their deflections are the zeroth-order orbit that steering sets.
 //!
 //! # Precision of energy gains
 //! In `f32` a gain below `2⁻²⁵ T` vanishes when added to `T` (an `f32` 1 GeV has a spacing of
@@ -50,6 +61,7 @@
 //! ```
 
 use crate::compensated::two_sum;
+use crate::transfer::{Envelope, TransferMap};
 use crate::{Error, Motion, Real, optics, try_finite};
 
 /// The direction of a thin kick in the transverse plane.
@@ -145,6 +157,57 @@ pub enum Element<T: Real> {
         /// Direction of the deflection.
         direction: KickDirection<T>,
     },
+    /// Thick magnetic quadrupole: gradient `G = ∂B_y/∂x` over `length_m` (m, > 0); focuses a
+    /// positive charge in `x` for `G > 0` ([`TransferMap::try_quadrupole`]).
+    Quadrupole {
+        /// Length in m.
+        length_m: T,
+        /// Gradient in T/m (signed).
+        gradient_t_per_m: T,
+    },
+    /// Thin magnetic quadrupole of integrated gradient `∫G dl` (T)
+    /// ([`TransferMap::try_thin_quadrupole`]).
+    ThinQuadrupole {
+        /// Integrated gradient in T (signed).
+        integrated_gradient_t: T,
+    },
+    /// Electrostatic quadrupole: electrode voltage `voltage_v` (V) on an aperture of radius
+    /// `aperture_radius_m` (m, > 0), over `length_m` (m, > 0)
+    /// ([`TransferMap::try_electrostatic_quadrupole`]).
+    ElectrostaticQuadrupole {
+        /// Length in m.
+        length_m: T,
+        /// Electrode voltage in V (signed; the potential is `V (x² − y²)/a²`).
+        voltage_v: T,
+        /// Aperture radius in m.
+        aperture_radius_m: T,
+    },
+    /// Sector dipole bending the line's axis by `angle_rad` over the arc `length_m` (m, > 0),
+    /// with pole-face rotations at the entrance and exit (rad, `|e| < π/2`)
+    /// ([`TransferMap::try_sector_dipole`]). Its field follows the reference: `B = Bρ θ/L`.
+    SectorDipole {
+        /// Arc length in m.
+        length_m: T,
+        /// Bending angle in rad (signed: `x` points away from the centre of curvature for `θ > 0`).
+        angle_rad: T,
+        /// Pole-face rotation at the entrance in rad.
+        entry_angle_rad: T,
+        /// Pole-face rotation at the exit in rad.
+        exit_angle_rad: T,
+    },
+    /// Solenoid of axial field `field_t` (T) over `length_m` (m, > 0), hard edge; couples `x` and
+    /// `y` ([`TransferMap::try_solenoid`]).
+    Solenoid {
+        /// Length in m.
+        length_m: T,
+        /// Axial field in T (signed, along `+s` for `B > 0`).
+        field_t: T,
+    },
+    /// A beam-position monitor: a marker where the position is read; it does nothing to the beam.
+    Monitor {
+        /// The monitor's number, as the control system names it.
+        id: u16,
+    },
 }
 
 impl<T: Real> Element<T> {
@@ -190,6 +253,46 @@ impl<T: Real> Element<T> {
                 try_finite(integrated_field_v)?;
                 direction.check()?;
             }
+            Self::Quadrupole {
+                length_m,
+                gradient_t_per_m,
+            } => {
+                positive(length_m)?;
+                try_finite(gradient_t_per_m)?;
+            }
+            Self::ThinQuadrupole {
+                integrated_gradient_t,
+            } => {
+                try_finite(integrated_gradient_t)?;
+            }
+            Self::ElectrostaticQuadrupole {
+                length_m,
+                voltage_v,
+                aperture_radius_m,
+            } => {
+                positive(length_m)?;
+                try_finite(voltage_v)?;
+                positive(aperture_radius_m)?;
+            }
+            Self::SectorDipole {
+                length_m,
+                angle_rad,
+                entry_angle_rad,
+                exit_angle_rad,
+            } => {
+                positive(length_m)?;
+                try_finite(angle_rad)?;
+                for edge in [entry_angle_rad, exit_angle_rad] {
+                    if try_finite(edge)?.abs() >= T::PI * T::HALF {
+                        return Err(Error::AngleOutOfRange);
+                    }
+                }
+            }
+            Self::Solenoid { length_m, field_t } => {
+                positive(length_m)?;
+                try_finite(field_t)?;
+            }
+            Self::Monitor { .. } => {}
         }
         Ok(self)
     }
@@ -255,12 +358,116 @@ impl<T: Real> Element<T> {
                     next.gap(voltage_v)?;
                 }
             }
+            Self::Monitor { .. } => {}
+            Self::ThinQuadrupole { .. } => {
+                let (map, _) = element.try_map(&state.motion)?;
+                next.linear(&map);
+            }
+            Self::Quadrupole { length_m, .. }
+            | Self::ElectrostaticQuadrupole { length_m, .. }
+            | Self::Solenoid { length_m, .. } => {
+                let (map, _) = element.try_map(&state.motion)?;
+                next.linear(&map);
+                next.add_time(state.motion.flight_time(length_m));
+            }
+            Self::SectorDipole { length_m, .. } => {
+                // the particle is the dipole's reference: its arrival is L/v plus the path
+                // difference of its offset and slope (the map's time row at δ = 0)
+                let (map, _) = element.try_map(&state.motion)?;
+                let out = map.apply([
+                    state.x,
+                    state.x_slope,
+                    state.y,
+                    state.y_slope,
+                    T::ZERO,
+                    T::ZERO,
+                ]);
+                next.linear(&map);
+                let [.., dt, _] = out;
+                next.add_time(state.motion.flight_time(length_m) + dt);
+            }
         }
         if next.is_finite() {
             Ok(next)
         } else {
             Err(Error::Overflow)
         }
+    }
+}
+
+impl<T: Real> Element<T> {
+    /// The element's first-order [`TransferMap`] at the reference state `reference`, and the
+    /// reference after it (changed only by a gap).
+    ///
+    /// Kicks and monitors are the identity and the straight-axis [`Element::HardEdgeDipole`] a
+    /// drift: about the line's axis their deflection is of zeroth order (see [Optics](self#optics)).
+    ///
+    /// # Errors
+    /// As [`try_check`](Self::try_check) and the [`TransferMap`] constructor of the element.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::beamline::Element;
+    /// let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 10.0e6)?;
+    /// let (map, after) = Element::AcceleratingGap { voltage_v: 1.0e6 }.try_map(&p)?;
+    /// assert_eq!(after.kinetic_energy(), 11.0e6);
+    /// assert!(map.to_array()[1][1] < 1.0); // adiabatic damping of x'
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_map(&self, reference: &Motion<T>) -> Result<(TransferMap<T>, Motion<T>), Error> {
+        let r = reference;
+        let map = match self.try_check()? {
+            Self::Drift { length_m } | Self::HardEdgeDipole { length_m, .. } => {
+                TransferMap::try_drift(r, length_m)?
+            }
+            Self::MagneticKick { .. } | Self::ElectrostaticKick { .. } | Self::Monitor { .. } => {
+                TransferMap::IDENTITY
+            }
+            Self::AcceleratingGap { voltage_v } => return TransferMap::try_gap(r, voltage_v),
+            Self::Quadrupole {
+                length_m,
+                gradient_t_per_m,
+            } => TransferMap::try_quadrupole(r, length_m, gradient_t_per_m)?,
+            Self::ThinQuadrupole {
+                integrated_gradient_t,
+            } => TransferMap::try_thin_quadrupole(r, integrated_gradient_t)?,
+            Self::ElectrostaticQuadrupole {
+                length_m,
+                voltage_v,
+                aperture_radius_m,
+            } => TransferMap::try_electrostatic_quadrupole(
+                r,
+                length_m,
+                voltage_v,
+                aperture_radius_m,
+            )?,
+            Self::SectorDipole {
+                length_m,
+                angle_rad,
+                entry_angle_rad,
+                exit_angle_rad,
+            } => TransferMap::try_sector_dipole(
+                r,
+                length_m,
+                angle_rad,
+                entry_angle_rad,
+                exit_angle_rad,
+            )?,
+            Self::Solenoid { length_m, field_t } => {
+                TransferMap::try_solenoid(r, length_m, field_t)?
+            }
+        };
+        Ok((map, *reference))
+    }
+}
+
+/// A finite length > 0, else the reason.
+fn positive<T: Real>(length_m: T) -> Result<T, Error> {
+    if try_finite(length_m)? <= T::ZERO {
+        Err(Error::NonPositiveLength)
+    } else {
+        Ok(length_m)
     }
 }
 
@@ -509,6 +716,17 @@ impl<T: Real> BeamState<T> {
         let (sum, carry) = two_sum(self.time, dt + self.time_carry);
         self.time = sum;
         self.time_carry = carry;
+    }
+
+    /// Offsets and slopes through the transverse block of a map (`δ = 0`: the particle is the
+    /// map's reference).
+    fn linear(&mut self, map: &TransferMap<T>) {
+        let [x, x_slope, y, y_slope, _, _] =
+            map.apply([self.x, self.x_slope, self.y, self.y_slope, T::ZERO, T::ZERO]);
+        self.x = x;
+        self.x_slope = x_slope;
+        self.y = y;
+        self.y_slope = y_slope;
     }
 
     fn kick(&mut self, theta: T, direction: KickDirection<T>) {
@@ -774,6 +992,348 @@ impl<T: Real, const N: usize> BeamLine<T, N> {
             index: 0,
             state: Some(start),
         }
+    }
+}
+
+impl<T: Real, const N: usize> BeamLine<T, N> {
+    /// The first-order map of the whole line for a reference that enters it as `reference`
+    /// (the energy flowing through the gaps), and the reference at its end.
+    ///
+    /// # Errors
+    /// The first error of [`Element::try_map`] along the line; [`Error::Overflow`] when an entry
+    /// of the product does not fit the precision.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::beamline::{BeamLine, Element};
+    /// let line = BeamLine::<f32, 4>::try_from_elements(&[
+    ///     Element::Drift { length_m: 1.0 },
+    ///     Element::ThinQuadrupole { integrated_gradient_t: 0.2 },
+    ///     Element::Drift { length_m: 1.0 },
+    /// ])?;
+    /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 5.0e6)?;
+    /// let (map, _) = line.try_map(&p)?;
+    /// assert!(map.to_array()[0][0] < 1.0); // focusing in x
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_map(&self, reference: &Motion<T>) -> Result<(TransferMap<T>, Motion<T>), Error> {
+        self.try_map_of(reference, 0..self.len())
+    }
+
+    /// The first-order map of the elements `range` (`i..j`: element `i` up to, not including,
+    /// element `j`) for a reference that enters the LINE (element 0) as `reference`, and the
+    /// reference after element `j − 1`. An empty range gives the identity.
+    ///
+    /// # Errors
+    /// [`Error::OutOfBounds`] when the range reaches past the line or ends before it starts;
+    /// else as [`try_map`](Self::try_map) (the gaps before `i` included).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::beamline::{BeamLine, Element};
+    /// let line = BeamLine::<f64, 4>::try_from_elements(&[
+    ///     Element::AcceleratingGap { voltage_v: 3.0e6 },
+    ///     Element::Drift { length_m: 2.0 },
+    /// ])?;
+    /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 1.0e6)?;
+    /// let (map, after) = line.try_map_of(&p, 1..2)?;
+    /// assert_eq!(after.kinetic_energy(), 4.0e6); // the drift's map is at 4 MeV
+    /// assert_eq!(map.to_array()[0][1], 2.0);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_map_of(
+        &self,
+        reference: &Motion<T>,
+        range: core::ops::Range<usize>,
+    ) -> Result<(TransferMap<T>, Motion<T>), Error> {
+        let (before, inside) = self.split(range)?;
+        let mut r = *reference;
+        for element in before {
+            if let Element::AcceleratingGap { .. } = element {
+                r = element.try_map(&r)?.1;
+            }
+        }
+        let mut map = TransferMap::IDENTITY;
+        for element in inside {
+            let (m, after) = element.try_map(&r)?;
+            map = map.then(&m);
+            r = after;
+        }
+        Ok((map.try_check()?, r))
+    }
+
+    /// The envelope after each element, for a beam entering the line as `start` with the
+    /// reference `reference`: `Ok((index, envelope, reference after))`, then at most one `Err` at
+    /// the first element whose map fails, after which it ends.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::beamline::{BeamLine, Element};
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let line = BeamLine::<f64, 4>::try_from_elements(&[
+    ///     Element::Drift { length_m: 1.0 },
+    ///     Element::Drift { length_m: 1.0 },
+    /// ])?;
+    /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 5.0e6)?;
+    /// let waist = Twiss::try_new(1.0, 0.0)?;
+    /// let start = Envelope::try_lattice(waist, waist, [0.0; 4])?;
+    /// let betas: Vec<f64> = line
+    ///     .envelopes(&p, start)
+    ///     .map(|r| r.map(|(_, e, _)| e.try_twiss_x().map(|t| t.beta())))
+    ///     .collect::<Result<Result<_, _>, _>>()??;
+    /// assert_eq!(betas, [2.0, 5.0]); // beta0 + s^2/beta0
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn envelopes(&self, reference: &Motion<T>, start: Envelope<T>) -> Envelopes<'_, T> {
+        Envelopes {
+            elements: &self.elements,
+            index: 0,
+            state: Some((start, *reference)),
+        }
+    }
+
+    /// Whether a beam entering the line as `start` (its emittances and momentum spread, see
+    /// [`Envelope::try_new`]) with the reference `reference` fits the apertures, one per element:
+    /// the sizes `√(β ε + (D σ_δ)²)` at the entrance and exit of each element against its
+    /// half-width (x) and half-height (y). The verdict names the first element and plane where
+    /// the beam does not fit. Run it again whenever the energy changes.
+    ///
+    /// A check of the `check` kind: it never fails, an impossible question is a verdict
+    /// ([`ApertureVerdict::Impossible`]: an element's map fails, or the apertures are not one per
+    /// element, [`Error::OutOfBounds`]).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::beamline::{Aperture, ApertureVerdict, BeamLine, Element, Plane};
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let line = BeamLine::<f32, 4>::try_from_elements(&[
+    ///     Element::Drift { length_m: 2.0 },
+    ///     Element::Drift { length_m: 2.0 },
+    /// ])?;
+    /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 5.0e6)?;
+    /// let waist = Twiss::try_new(1.0, 0.0)?;
+    /// // 1e-6 m rad: sizes 1 mm at the start, 2.2 mm after 2 m, 4.1 mm after 4 m
+    /// let beam = Envelope::try_new(waist, waist, [0.0; 4], 1.0e-6, 1.0e-6, 0.0)?;
+    /// let pipe = Aperture::try_new(3.0e-3, 5.0e-3)?;
+    /// match line.check_aperture(&p, beam, &[pipe, pipe]) {
+    ///     ApertureVerdict::Exceeds { element, plane, .. } => {
+    ///         assert_eq!((element, plane), (1, Plane::Horizontal));
+    ///     }
+    ///     other => panic!("{other:?}"),
+    /// }
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn check_aperture(
+        &self,
+        reference: &Motion<T>,
+        start: Envelope<T>,
+        apertures: &[Aperture<T>],
+    ) -> ApertureVerdict<T> {
+        if apertures.len() != self.len() {
+            return ApertureVerdict::Impossible(Error::OutOfBounds);
+        }
+        let mut before = start;
+        let mut worst = T::ZERO;
+        for (index, (step, aperture)) in self.envelopes(reference, start).zip(apertures).enumerate()
+        {
+            let after = match step {
+                Ok((_, envelope, _)) => envelope,
+                Err(e) => return ApertureVerdict::Impossible(e),
+            };
+            for (plane, limit, sizes) in [
+                (
+                    Plane::Horizontal,
+                    aperture.half_width_m,
+                    [before.size_x_m(), after.size_x_m()],
+                ),
+                (
+                    Plane::Vertical,
+                    aperture.half_height_m,
+                    [before.size_y_m(), after.size_y_m()],
+                ),
+            ] {
+                let size = sizes[0].max(sizes[1]);
+                // a NaN size (never expected) does not fit either
+                if size.partial_cmp(&limit).is_none_or(|o| o.is_gt()) {
+                    return ApertureVerdict::Exceeds {
+                        element: index,
+                        plane,
+                        size_m: size,
+                        aperture_m: limit,
+                    };
+                }
+                worst = worst.max(size / limit);
+            }
+            before = after;
+        }
+        ApertureVerdict::Fits { worst_fill: worst }
+    }
+
+    /// The elements before `range` and those in it.
+    #[allow(clippy::type_complexity)]
+    fn split(
+        &self,
+        range: core::ops::Range<usize>,
+    ) -> Result<(&[Element<T>], &[Element<T>]), Error> {
+        let before = self.elements.get(..range.start).ok_or(Error::OutOfBounds)?;
+        let inside = self.elements.get(range).ok_or(Error::OutOfBounds)?;
+        Ok((before, inside))
+    }
+}
+
+/// Iterator over the envelopes after each element of a [`BeamLine`] (see
+/// [`BeamLine::envelopes`]).
+///
+/// # Examples
+/// ```
+/// use fourforce::{Motion, Species};
+/// use fourforce::beamline::{BeamLine, Element};
+/// use fourforce::transfer::{Envelope, Twiss};
+/// let line = BeamLine::<f32, 2>::try_from_elements(&[Element::AcceleratingGap { voltage_v: 1.0e6 }])?;
+/// let p = Motion::try_from_kinetic_energy(Species::PROTON, 1.0e6)?;
+/// let t = Twiss::try_new(1.0, 0.0)?;
+/// let beam = Envelope::try_new(t, t, [0.0; 4], 1.0e-6, 1.0e-6, 0.0)?;
+/// let (_, after, reference) = line.envelopes(&p, beam).next().unwrap()?;
+/// assert_eq!(reference.kinetic_energy(), 2.0e6);
+/// // adiabatic damping: the emittance falls by p0/p1 (about 1/sqrt 2 here)
+/// assert!((after.emittance_x_m() / 1.0e-6 - 0.7072).abs() < 1e-3);
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Debug)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Envelopes<'a, T: Real> {
+    elements: &'a [Element<T>],
+    index: usize,
+    state: Option<(Envelope<T>, Motion<T>)>,
+}
+
+impl<T: Real> Iterator for Envelopes<'_, T> {
+    type Item = Result<(usize, Envelope<T>, Motion<T>), Error>;
+
+    fn next(&mut self) -> Option<Self::Item> {
+        let (envelope, reference) = self.state.take()?;
+        let index = self.index;
+        let element = self.elements.get(index)?;
+        self.index = index + 1;
+        let step = element
+            .try_map(&reference)
+            .and_then(|(map, after)| Ok((envelope.try_through(&map)?, after)));
+        match step {
+            Ok((next, after)) => {
+                self.state = Some((next, after));
+                Some(Ok((index, next, after)))
+            }
+            Err(e) => Some(Err(e)),
+        }
+    }
+}
+
+/// The transverse plane of an aperture verdict.
+///
+/// # Examples
+/// ```
+/// use fourforce::beamline::Plane;
+/// assert_ne!(Plane::Horizontal, Plane::Vertical);
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum Plane {
+    /// `x`.
+    Horizontal,
+    /// `y`.
+    Vertical,
+}
+
+/// The free aperture of an element: half-width in `x` and half-height in `y` (m, > 0).
+///
+/// # Examples
+/// ```
+/// use fourforce::beamline::Aperture;
+/// let a = Aperture::try_new(0.02_f32, 0.01)?;
+/// assert_eq!((a.half_width_m, a.half_height_m), (0.02, 0.01));
+/// assert!(Aperture::try_new(0.0_f32, 0.01).is_err());
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Aperture<T: Real> {
+    /// Half-width in `x`, m.
+    pub half_width_m: T,
+    /// Half-height in `y`, m.
+    pub half_height_m: T,
+}
+
+impl<T: Real> Aperture<T> {
+    /// An aperture from its half-width and half-height (m, > 0; `T::INFINITY` for none).
+    ///
+    /// # Errors
+    /// [`Error::NonPositiveLength`] for a half-size that is not positive, or NaN.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::beamline::Aperture;
+    /// assert!(Aperture::try_new(f64::INFINITY, 0.01).is_ok()); // no limit in x
+    /// ```
+    pub fn try_new(half_width_m: T, half_height_m: T) -> Result<Self, Error> {
+        for h in [half_width_m, half_height_m] {
+            if h.partial_cmp(&T::ZERO).is_none_or(|o| o.is_le()) {
+                return Err(Error::NonPositiveLength);
+            }
+        }
+        Ok(Self {
+            half_width_m,
+            half_height_m,
+        })
+    }
+}
+
+/// The outcome of [`BeamLine::check_aperture`].
+///
+/// # Examples
+/// ```
+/// use fourforce::beamline::ApertureVerdict;
+/// let v = ApertureVerdict::Fits { worst_fill: 0.8_f32 };
+/// assert!(v.fits());
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum ApertureVerdict<T: Real> {
+    /// The beam fits everywhere; `worst_fill` is the largest size/aperture ratio (≤ 1).
+    Fits {
+        /// Largest ratio of beam size to aperture along the line.
+        worst_fill: T,
+    },
+    /// The beam does not fit at `element` (0-based), in `plane`.
+    Exceeds {
+        /// Index of the first element where the beam does not fit.
+        element: usize,
+        /// The plane where it does not fit.
+        plane: Plane,
+        /// The beam size there (m), the larger of entrance and exit.
+        size_m: T,
+        /// The aperture there (m).
+        aperture_m: T,
+    },
+    /// The question has no answer; the error says why.
+    Impossible(Error),
+}
+
+impl<T: Real> ApertureVerdict<T> {
+    /// True for [`ApertureVerdict::Fits`].
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, beamline::ApertureVerdict};
+    /// assert!(!ApertureVerdict::<f32>::Impossible(Error::OutOfBounds).fits());
+    /// ```
+    #[must_use]
+    pub fn fits(&self) -> bool {
+        matches!(self, Self::Fits { .. })
     }
 }
 

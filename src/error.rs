@@ -78,6 +78,13 @@ pub enum Error {
     NonPositiveUncertainty,
     /// A speed was zero where a moving particle is needed (a speed witness of a beam at rest).
     ZeroSpeed,
+    // --- transfer ---
+    /// A periodic cell has no stable solution: `|trace| ≥ 2` in a plane, or it changes the energy.
+    Unstable,
+    /// A per-plane quantity was asked of a map that couples the planes (a solenoid).
+    Coupled,
+    /// An emittance was zero or negative, or a projected emittance rounded to zero.
+    NonPositiveEmittance,
 }
 
 impl fmt::Display for Error {
@@ -107,6 +114,9 @@ impl fmt::Display for Error {
             Error::NotMonotone => "calibration points are not strictly increasing",
             Error::NonPositiveUncertainty => "standard uncertainty is zero or negative",
             Error::ZeroSpeed => "speed is zero where a moving particle is needed",
+            Error::Unstable => "cell has no stable periodic solution",
+            Error::Coupled => "map couples the planes",
+            Error::NonPositiveEmittance => "emittance is zero or negative",
         })
     }
 }
@@ -155,6 +165,9 @@ mod tests {
             Error::NotMonotone,
             Error::NonPositiveUncertainty,
             Error::ZeroSpeed,
+            Error::Unstable,
+            Error::Coupled,
+            Error::NonPositiveEmittance,
         ];
         let messages: Vec<_> = all.iter().map(ToString::to_string).collect();
         for (i, m) in messages.iter().enumerate() {

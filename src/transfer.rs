@@ -520,7 +520,21 @@ impl<T: Real> TransferMap<T> {
         Ok((m.checked()?, after))
     }
 
-    /// `Ok(self)` if every entry is finite, else [`Error::Overflow`].
+    /// `Ok(self)` if every entry is finite, else [`Error::Overflow`] (a product of maps can
+    /// overflow where no element does).
+    ///
+    /// # Errors
+    /// [`Error::Overflow`] when an entry is infinite or NaN.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::TransferMap;
+    /// assert!(TransferMap::<f32>::IDENTITY.try_check().is_ok());
+    /// ```
+    pub fn try_check(self) -> Result<Self, Error> {
+        self.checked()
+    }
+
     fn checked(self) -> Result<Self, Error> {
         let finite_rows = self.transverse.iter().flatten().all(|x| x.is_finite());
         let rest = self
@@ -672,6 +686,506 @@ impl<T: Real> TransferMap<T> {
     #[inline]
     pub fn is_coupled(&self) -> bool {
         self.coupled
+    }
+}
+
+impl<T: Real> TransferMap<T> {
+    /// The periodic solution of a cell whose map is `self`: per plane `cos μ = (R11 + R22)/2`,
+    /// `β = R12/sin μ`, `α = (R11 − R22)/(2 sin μ)` (the sign of `sin μ` that makes `β > 0`), and
+    /// the periodic dispersion `D = (I − R)⁻¹ R₆` of the 2×2 block.
+    ///
+    /// # Errors
+    /// [`Error::Coupled`] for a cell that couples the planes (a solenoid); [`Error::Unstable`]
+    /// when `|R11 + R22| ≥ 2` in a plane, or the cell changes the energy (`R66 ≠ 1`: no periodic
+    /// solution); [`Error::Overflow`] when a result does not fit.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, Motion, Species};
+    /// use fourforce::transfer::TransferMap;
+    /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 100.0e6)?;
+    /// let brho = p.try_magnetic_rigidity()?;
+    /// // An invented thin-lens cell, f = 2.5 m, drifts of 3 m: cos mu = 1 - L^2/(2 f^2) = 0.28.
+    /// let half = TransferMap::try_thin_quadrupole(&p, brho / 5.0)?;
+    /// let d = TransferMap::try_drift(&p, 3.0)?;
+    /// let middle = TransferMap::try_thin_quadrupole(&p, -brho / 2.5)?;
+    /// let cell = half.then(&d).then(&middle).then(&d).then(&half).try_periodic()?;
+    /// assert!((cell.phase_advance_x_rad.cos() - 0.28).abs() < 1e-14);
+    /// let drift = TransferMap::try_drift(&p, 1.0)?;
+    /// assert_eq!(drift.try_periodic().err(), Some(Error::Unstable)); // trace = 2
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_periodic(&self) -> Result<CellOptics<T>, Error> {
+        if self.coupled {
+            return Err(Error::Coupled);
+        }
+        if self.delta_scale != T::ONE {
+            return Err(Error::Unstable);
+        }
+        let (x, mu_x, dx) = periodic_plane(&self.transverse, &self.dispersion, 0)?;
+        let (y, mu_y, dy) = periodic_plane(&self.transverse, &self.dispersion, 2)?;
+        Ok(CellOptics {
+            x,
+            y,
+            dispersion: [dx[0], dx[1], dy[0], dy[1]],
+            phase_advance_x_rad: mu_x,
+            phase_advance_y_rad: mu_y,
+        })
+    }
+}
+
+/// The periodic Twiss parameters, phase advance and dispersion of the plane at `base`.
+fn periodic_plane<T: Real>(
+    a: &[[T; 4]; 4],
+    d: &[T; 4],
+    base: usize,
+) -> Result<(Twiss<T>, T, [T; 2]), Error> {
+    let (m11, m12) = (entry(a, base, base), entry(a, base, base + 1));
+    let (m21, m22) = (entry(a, base + 1, base), entry(a, base + 1, base + 1));
+    let half_trace = (m11 + m22) * T::HALF;
+    if !half_trace.is_finite() || half_trace.abs() >= T::ONE {
+        return Err(Error::Unstable);
+    }
+    // sin μ with the sign of R12, so that β = R12/sin μ > 0
+    let sin_mu = ((T::ONE - half_trace) * (T::ONE + half_trace))
+        .sqrt()
+        .copysign(m12);
+    let beta = fits(m12 / sin_mu)?;
+    let alpha = fits((m11 - m22) * T::HALF / sin_mu)?;
+    let mut mu = sin_mu.atan2(half_trace);
+    if mu < T::ZERO {
+        mu = mu + T::PI + T::PI;
+    }
+    // (I − R) D = R₆: det(I − R) = 2 − trace (det R = 1)
+    let det = (T::ONE - half_trace) * T::TWO;
+    let (d1, d2) = (column(d, base), column(d, base + 1));
+    let dispersion = [
+        fits(((T::ONE - m22) * d1 + m12 * d2) / det)?,
+        fits((m21 * d1 + (T::ONE - m11) * d2) / det)?,
+    ];
+    Ok((Twiss::try_new(beta, alpha)?, mu, dispersion))
+}
+
+/// The periodic solution of a cell ([`TransferMap::try_periodic`]).
+///
+/// # Examples
+/// ```
+/// use fourforce::{Motion, Species};
+/// use fourforce::transfer::TransferMap;
+/// let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 100.0e6)?;
+/// let q = TransferMap::try_thin_quadrupole(&p, 0.3)?;
+/// let cell = q.then(&TransferMap::try_drift(&p, 2.0)?)
+///     .then(&TransferMap::try_thin_quadrupole(&p, -0.3)?)
+///     .then(&TransferMap::try_drift(&p, 2.0)?)
+///     .try_periodic()?;
+/// assert!(cell.x.beta() > 0.0 && cell.dispersion == [0.0; 4]);
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct CellOptics<T: Real> {
+    /// Horizontal Twiss parameters at the cell's start (and end).
+    pub x: Twiss<T>,
+    /// Vertical Twiss parameters.
+    pub y: Twiss<T>,
+    /// Periodic dispersion `(D_x [m], D_x' [rad], D_y [m], D_y' [rad])`.
+    pub dispersion: [T; 4],
+    /// Horizontal phase advance per cell `μ_x` in rad, in `(0, 2π)`.
+    pub phase_advance_x_rad: T,
+    /// Vertical phase advance per cell `μ_y` in rad, in `(0, 2π)`.
+    pub phase_advance_y_rad: T,
+}
+
+/// Courant–Snyder (Twiss) parameters of one plane: `β` (m), `α`, and `γ = (1 + α²)/β` (1/m).
+///
+/// # Examples
+/// ```
+/// use fourforce::transfer::Twiss;
+/// let t = Twiss::try_new(2.0_f64, -1.0)?;
+/// assert_eq!(t.gamma(), 1.0);
+/// assert!(Twiss::try_new(0.0_f64, 0.0).is_err());
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Twiss<T: Real> {
+    beta_m: T,
+    alpha: T,
+}
+
+impl<T: Real> Twiss<T> {
+    /// Twiss parameters from `β` (m, > 0) and `α`.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::NonPositiveLength`] for `β ≤ 0`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, transfer::Twiss};
+    /// assert_eq!(Twiss::try_new(-1.0_f32, 0.0), Err(Error::NonPositiveLength));
+    /// ```
+    pub fn try_new(beta_m: T, alpha: T) -> Result<Self, Error> {
+        let beta_m = positive(beta_m)?;
+        Ok(Self {
+            beta_m,
+            alpha: try_finite(alpha)?,
+        })
+    }
+
+    /// `β` in m.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::Twiss;
+    /// assert_eq!(Twiss::try_new(3.0_f32, 0.5)?.beta(), 3.0);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    #[inline]
+    pub fn beta(&self) -> T {
+        self.beta_m
+    }
+
+    /// `α = −β'/2`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::Twiss;
+    /// assert_eq!(Twiss::try_new(3.0_f32, 0.5)?.alpha(), 0.5);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    #[inline]
+    pub fn alpha(&self) -> T {
+        self.alpha
+    }
+
+    /// `γ = (1 + α²)/β` in 1/m.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::Twiss;
+    /// assert_eq!(Twiss::try_new(4.0_f32, 1.0)?.gamma(), 0.5);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    #[inline]
+    pub fn gamma(&self) -> T {
+        (T::ONE + self.alpha * self.alpha) / self.beta_m
+    }
+}
+
+/// A beam at one place of a line: the second moments `Σ` of its betatron part in
+/// `(x, x', y, y')` (m², m·rad, rad²), its dispersion `(D_x, D_x', D_y, D_y')` (m, rad) and its rms
+/// momentum spread `σ_δ` (see [Envelopes](self#envelopes)).
+///
+/// # Examples
+/// ```
+/// use fourforce::{Motion, Species};
+/// use fourforce::transfer::{Envelope, TransferMap, Twiss};
+/// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 10.0e6)?;
+/// let waist = Twiss::try_new(1.0, 0.0)?;
+/// // 1 mm mrad in each plane, 1e-3 momentum spread, no dispersion at the start
+/// let beam = Envelope::try_new(waist, waist, [0.0; 4], 1.0e-6, 1.0e-6, 1.0e-3)?;
+/// let after = beam.try_through(&TransferMap::try_drift(&p, 1.0)?)?;
+/// // beta(s) = beta0 + s^2/beta0 = 2 m: size sqrt(2e-6) m
+/// assert!((after.size_x_m() - 2.0e-6_f64.sqrt()).abs() < 1e-18);
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Envelope<T: Real> {
+    sigma: [[T; 4]; 4],
+    dispersion: [T; 4],
+    momentum_spread: T,
+}
+
+impl<T: Real> Envelope<T> {
+    /// A beam of emittances `ε_x`, `ε_y` (m·rad, geometric, > 0) whose betatron part has the
+    /// Twiss parameters `x`, `y`, with dispersion `(D_x, D_x', D_y, D_y')` and momentum spread
+    /// `σ_δ ≥ 0`: `Σ = ε_x [[β, −α], [−α, γ]] ⊕ ε_y [[β, −α], [−α, γ]]`.
+    ///
+    /// For the size of a beam's edge rather than its rms, give the edge's emittance and spread
+    /// (for `n` standard deviations, `n²ε` and `n σ_δ`).
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::NonPositiveEmittance`] for `ε ≤ 0`;
+    /// [`Error::NegativeMagnitude`] for `σ_δ < 0`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, transfer::{Envelope, Twiss}};
+    /// let t = Twiss::try_new(1.0_f32, 0.0)?;
+    /// assert_eq!(Envelope::try_new(t, t, [0.0; 4], 0.0, 1.0e-6, 0.0), Err(Error::NonPositiveEmittance));
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_new(
+        x: Twiss<T>,
+        y: Twiss<T>,
+        dispersion: [T; 4],
+        emittance_x_m: T,
+        emittance_y_m: T,
+        momentum_spread: T,
+    ) -> Result<Self, Error> {
+        for e in [emittance_x_m, emittance_y_m] {
+            if try_finite(e)? <= T::ZERO {
+                return Err(Error::NonPositiveEmittance);
+            }
+        }
+        if try_finite(momentum_spread)? < T::ZERO {
+            return Err(Error::NegativeMagnitude);
+        }
+        for d in dispersion {
+            try_finite(d)?;
+        }
+        let (ex, ey) = (emittance_x_m, emittance_y_m);
+        let (ax, ay) = (-x.alpha * ex, -y.alpha * ey);
+        let z = T::ZERO;
+        let sigma = [
+            [x.beta_m * ex, ax, z, z],
+            [ax, x.gamma() * ex, z, z],
+            [z, z, y.beta_m * ey, ay],
+            [z, z, ay, y.gamma() * ey],
+        ];
+        let envelope = Self {
+            sigma,
+            dispersion,
+            momentum_spread,
+        };
+        envelope.checked()
+    }
+
+    /// The lattice functions alone: unit emittances (1 m·rad) and no momentum spread, so that
+    /// the moments carry `β`, `α`, `γ` and the sizes read `√β`.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`] for a non-finite dispersion.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let t = Twiss::try_new(4.0_f64, 0.0)?;
+    /// assert_eq!(Envelope::try_lattice(t, t, [0.0; 4])?.size_x_m(), 2.0);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_lattice(x: Twiss<T>, y: Twiss<T>, dispersion: [T; 4]) -> Result<Self, Error> {
+        Self::try_new(x, y, dispersion, T::ONE, T::ONE, T::ZERO)
+    }
+
+    fn checked(self) -> Result<Self, Error> {
+        let all = self.sigma.iter().flatten().chain(self.dispersion.iter());
+        if all.fold(self.momentum_spread.is_finite(), |ok, x| {
+            ok && x.is_finite()
+        }) {
+            Ok(self)
+        } else {
+            Err(Error::Overflow)
+        }
+    }
+
+    /// The beam after `map`: `Σ → A Σ Aᵀ`, `D → (A D + R₆)/R66`, `σ_δ → |R66| σ_δ`.
+    ///
+    /// # Errors
+    /// [`Error::Overflow`] when a moment does not fit the precision.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species};
+    /// use fourforce::transfer::{Envelope, TransferMap, Twiss};
+    /// let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 10.0e6)?;
+    /// let t = Twiss::try_new(2.0, 0.0)?;
+    /// let e = Envelope::try_lattice(t, t, [0.0; 4])?;
+    /// let bend = TransferMap::try_sector_dipole(&p, 1.0, 0.2, 0.0, 0.0)?;
+    /// let d = e.try_through(&bend)?.dispersion();
+    /// assert!((d[0] - 5.0 * (1.0 - 0.2_f32.cos())).abs() < 1e-6); // R16
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_through(&self, map: &TransferMap<T>) -> Result<Self, Error> {
+        let a = &map.transverse;
+        // A Σ
+        let mut a_sigma = [[T::ZERO; 4]; 4];
+        for (row, a_row) in a_sigma.iter_mut().zip(a) {
+            for (j, v) in row.iter_mut().enumerate() {
+                *v = a_row
+                    .iter()
+                    .zip(&self.sigma)
+                    .fold(T::ZERO, |s, (&aik, s_row)| s + aik * column(s_row, j));
+            }
+        }
+        // (A Σ) Aᵀ
+        let mut sigma = [[T::ZERO; 4]; 4];
+        for (row, left) in sigma.iter_mut().zip(&a_sigma) {
+            for (v, a_row) in row.iter_mut().zip(a) {
+                *v = left
+                    .iter()
+                    .zip(a_row)
+                    .fold(T::ZERO, |s, (&l, &r)| s + l * r);
+            }
+        }
+        let s = map.delta_scale;
+        let mut dispersion = [T::ZERO; 4];
+        for ((d, a_row), &r6) in dispersion.iter_mut().zip(a).zip(&map.dispersion) {
+            let carried = a_row
+                .iter()
+                .zip(&self.dispersion)
+                .fold(T::ZERO, |sum, (&aik, &dk)| sum + aik * dk);
+            *d = (carried + r6) / s;
+        }
+        Self {
+            sigma,
+            dispersion,
+            momentum_spread: self.momentum_spread * s.abs(),
+        }
+        .checked()
+    }
+
+    /// The beam size `√(Σ₁₁ + (D_x σ_δ)²) = √(β_x ε_x + (D_x σ_δ)²)` in m.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let t = Twiss::try_new(4.0_f64, 0.0)?;
+    /// let e = Envelope::try_new(t, t, [0.3, 0.0, 0.0, 0.0], 1.0e-6, 1.0e-6, 1.0e-2)?;
+    /// assert!((e.size_x_m() - (4.0e-6_f64 + 9.0e-6).sqrt()).abs() < 1e-18);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn size_x_m(&self) -> T {
+        self.size(0)
+    }
+
+    /// The beam size `√(Σ₃₃ + (D_y σ_δ)²)` in m.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let t = Twiss::try_new(4.0_f64, 0.0)?;
+    /// assert_eq!(Envelope::try_new(t, t, [0.0; 4], 1.0, 1.0, 0.0)?.size_y_m(), 2.0);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn size_y_m(&self) -> T {
+        self.size(2)
+    }
+
+    fn size(&self, i: usize) -> T {
+        let d = column(&self.dispersion, i) * self.momentum_spread;
+        (entry(&self.sigma, i, i) + d * d).sqrt()
+    }
+
+    /// The projected emittance `√(Σ₁₁Σ₂₂ − Σ₁₂²)` of the horizontal plane in m·rad (the
+    /// emittance given, times the adiabatic damping `p₀/p`, in a line without coupling).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let t = Twiss::try_new(4.0_f64, 1.0)?;
+    /// let e = Envelope::try_new(t, t, [0.0; 4], 2.0e-6, 1.0e-6, 0.0)?;
+    /// assert!((e.emittance_x_m() / 2.0e-6 - 1.0).abs() < 1e-15);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn emittance_x_m(&self) -> T {
+        self.emittance(0)
+    }
+
+    /// The projected emittance of the vertical plane in m·rad.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let t = Twiss::try_new(4.0_f64, 1.0)?;
+    /// let e = Envelope::try_new(t, t, [0.0; 4], 2.0e-6, 1.0e-6, 0.0)?;
+    /// assert!((e.emittance_y_m() / 1.0e-6 - 1.0).abs() < 1e-15);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn emittance_y_m(&self) -> T {
+        self.emittance(2)
+    }
+
+    fn emittance(&self, i: usize) -> T {
+        let (a, b, c) = (
+            entry(&self.sigma, i, i),
+            entry(&self.sigma, i, i + 1),
+            entry(&self.sigma, i + 1, i + 1),
+        );
+        (a * c - b * b).max(T::ZERO).sqrt()
+    }
+
+    /// The horizontal Twiss parameters of the projected moments: `β = Σ₁₁/ε`, `α = −Σ₁₂/ε`.
+    ///
+    /// # Errors
+    /// [`Error::NonPositiveEmittance`] when the projected emittance has rounded to zero.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let t = Twiss::try_new(4.0_f64, 1.0)?;
+    /// let e = Envelope::try_new(t, t, [0.0; 4], 2.0e-6, 1.0e-6, 0.0)?;
+    /// assert!((e.try_twiss_x()?.beta() - 4.0).abs() < 1e-14);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_twiss_x(&self) -> Result<Twiss<T>, Error> {
+        self.twiss(0)
+    }
+
+    /// The vertical Twiss parameters of the projected moments.
+    ///
+    /// # Errors
+    /// As [`try_twiss_x`](Self::try_twiss_x).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let t = Twiss::try_new(4.0_f64, 1.0)?;
+    /// let e = Envelope::try_lattice(t, t, [0.0; 4])?;
+    /// assert!((e.try_twiss_y()?.alpha() - 1.0).abs() < 1e-15);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_twiss_y(&self) -> Result<Twiss<T>, Error> {
+        self.twiss(2)
+    }
+
+    fn twiss(&self, i: usize) -> Result<Twiss<T>, Error> {
+        let e = self.emittance(i);
+        if e <= T::ZERO {
+            return Err(Error::NonPositiveEmittance);
+        }
+        Twiss::try_new(
+            entry(&self.sigma, i, i) / e,
+            -entry(&self.sigma, i, i + 1) / e,
+        )
+    }
+
+    /// The dispersion `(D_x [m], D_x' [rad], D_y [m], D_y' [rad])`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let t = Twiss::try_new(1.0_f32, 0.0)?;
+    /// assert_eq!(Envelope::try_lattice(t, t, [0.5, 0.0, 0.0, 0.0])?.dispersion()[0], 0.5);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    #[inline]
+    pub fn dispersion(&self) -> [T; 4] {
+        self.dispersion
+    }
+
+    /// The rms momentum spread `σ_δ`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::transfer::{Envelope, Twiss};
+    /// let t = Twiss::try_new(1.0_f32, 0.0)?;
+    /// assert_eq!(Envelope::try_new(t, t, [0.0; 4], 1.0, 1.0, 1.0e-3)?.momentum_spread(), 1.0e-3);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    #[inline]
+    pub fn momentum_spread(&self) -> T {
+        self.momentum_spread
     }
 }
 

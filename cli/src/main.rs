@@ -37,6 +37,7 @@ macro_rules! subcommands {
 
 subcommands! {
     Table => table,
+    Map => map,
 }
 
 const ABOUT: &str = "Relativistic charged-particle kinematics on the host (the fourforce crate).";

@@ -7,7 +7,7 @@ use clap::Args;
 use fourforce::Real;
 
 /// `--f32` / `--f64`; the last one given wins, f64 when neither is.
-#[derive(Args, Clone, Copy, Debug)]
+#[derive(Args, Clone, Copy, Debug, Default)]
 pub struct Precision {
     /// Compute in single precision, as firmware on a single-precision FPU would; values are
     /// printed with 9 significant digits, which round-trip an f32.

@@ -66,6 +66,15 @@ public_types! {
     Assessment => [fourforce::witness::Assessment<f32, 4>, fourforce::witness::Assessment<f64, 16>],
     SpeciesVerdict => [fourforce::witness::SpeciesVerdict],
     Watch => [fourforce::witness::Watch<f32, 4>, fourforce::witness::Watch<f64, 16>],
+    // linear optics
+    TransferMap => [fourforce::transfer::TransferMap<f32>, fourforce::transfer::TransferMap<f64>],
+    CellOptics => [fourforce::transfer::CellOptics<f32>, fourforce::transfer::CellOptics<f64>],
+    Twiss => [fourforce::transfer::Twiss<f32>, fourforce::transfer::Twiss<f64>],
+    Envelope => [fourforce::transfer::Envelope<f32>, fourforce::transfer::Envelope<f64>],
+    Envelopes => [fourforce::beamline::Envelopes<'static, f32>, fourforce::beamline::Envelopes<'static, f64>],
+    Plane => [fourforce::beamline::Plane],
+    Aperture => [fourforce::beamline::Aperture<f32>, fourforce::beamline::Aperture<f64>],
+    ApertureVerdict => [fourforce::beamline::ApertureVerdict<f32>, fourforce::beamline::ApertureVerdict<f64>],
 }
 
 /// `pub` types that are not reachable from outside the crate (none so far).
