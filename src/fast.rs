@@ -67,19 +67,15 @@ pub fn sqrt(x: f32) -> f32 {
     }
 }
 
-/// Checks the inputs shared by every function: a finite, non-negative kinetic energy (eV) and a
-/// species with a positive rest energy.
+/// Checks the input shared by every function, a finite, non-negative kinetic energy (eV), and
+/// returns it with the rest energy (a [`Species`] always has a finite one of at least 1 eV).
 #[inline]
 fn checked(species: Species<f32>, kinetic_energy_ev: f32) -> Result<(f32, f32), Error> {
     let t = crate::try_finite(kinetic_energy_ev)?;
     if t < 0.0 {
         return Err(Error::NegativeEnergy);
     }
-    let m = species.rest_energy();
-    if m.is_nan() || m <= 0.0 {
-        return Err(Error::NonPositiveMass);
-    }
-    Ok((t, m))
+    Ok((t, species.rest_energy()))
 }
 
 /// Momentum `pc = √(T (T + 2m))` in eV from the kinetic energy `T` (eV), fast and coarse.
@@ -88,7 +84,6 @@ fn checked(species: Species<f32>, kinetic_energy_ev: f32) -> Result<(f32, f32), 
 ///
 /// # Errors
 /// [`Error::NonFinite`] for a NaN or infinite `T`; [`Error::NegativeEnergy`] for `T < 0`;
-/// [`Error::NonPositiveMass`] for a species built with a non-positive rest energy;
 /// [`Error::Overflow`] when `T (T + 2m)` overflows `f32` (T above about 1.8e19 eV).
 ///
 /// # Examples

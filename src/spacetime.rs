@@ -281,9 +281,8 @@ impl<T: Real> FourVector<T> {
     /// `(1, 0, 0, 0)`. The charge of the species is not used.
     ///
     /// # Errors
-    /// [`Error::NonFinite`] for a non-finite momentum or rest energy;
-    /// [`Error::NonPositiveMass`] for a rest energy that is not positive; [`Error::Overflow`]
-    /// when `pc/m` or `u⁰` does not fit the precision.
+    /// [`Error::NonFinite`] for a non-finite momentum; [`Error::Overflow`] when `pc/m` or `u⁰`
+    /// does not fit the precision.
     ///
     /// # Examples
     /// ```
@@ -299,14 +298,11 @@ impl<T: Real> FourVector<T> {
         species: Species<T>,
         pc_ev: ThreeVector<T>,
     ) -> Result<Self, Error> {
-        let m = species.rest_energy();
-        if !pc_ev.is_finite() || !m.is_finite() {
+        if !pc_ev.is_finite() {
             return Err(Error::NonFinite);
         }
-        if m <= T::ZERO {
-            return Err(Error::NonPositiveMass);
-        }
-        let u = pc_ev / m;
+        // A species' rest energy is finite and at least 1 eV (its invariant).
+        let u = pc_ev / species.rest_energy();
         // Every component may fit while |u|, and so u⁰, does not.
         let time = T::ONE.hypot(u.norm());
         if !u.is_finite() || !time.is_finite() {
@@ -738,10 +734,10 @@ mod tests {
         );
         assert_eq!(
             FourVector::try_four_velocity_from_momentum(
-                Species::new(0.0_f32, 1.0),
-                ThreeVector::ZERO
+                Species::PROTON,
+                ThreeVector::new(f32::NAN, 0.0, 0.0)
             ),
-            Err(Error::NonPositiveMass)
+            Err(Error::NonFinite)
         );
         assert_eq!(
             FourVector::<f32>::ZERO.four_velocity_deviation(),

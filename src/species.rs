@@ -5,8 +5,9 @@
 //! any ion is built from its rest energy and charge state, or from the neutral atom's mass.
 //!
 //! # For firmware authors
-//! Everything here is `const`: put the species of your machine in a `static` and pass it by value
-//! (two floats).
+//! The named species are `const`, and a custom one can be built in a `const` with a check at
+//! compile time (`Species::<f32>::try_new_const`): put the species of your machine in a `static` and
+//! pass it by value (two floats).
 //!
 //! # Examples
 //! ```
@@ -20,12 +21,24 @@ use crate::{Error, Real};
 
 /// A particle species: rest energy `mc²` (eV) and charge `Q` (units of `e`, with sign).
 ///
+/// Invariant: the rest energy is finite and at least [`MIN_REST_ENERGY`](Self::MIN_REST_ENERGY)
+/// (1 eV), the charge finite (zero allowed). Every way to build one checks it: the named
+/// constants, [`try_new`](Self::try_new), [`try_from_atom`](Self::try_from_atom), and the `const`
+/// `Species::<f32>::try_new_const` / `Species::<f64>::try_new_const` for `const` tables. So no
+/// state of motion built from a species can have `γ < 1` or a non-finite `γ` for lack of a check
+/// here.
+///
 /// # Examples
 /// ```
 /// use fourforce::Species;
 /// let carbon6 = Species::<f64>::try_new(11_174_864_265.448, 6.0)?;
 /// assert_eq!(carbon6.charge(), 6.0);
 /// # Ok::<(), fourforce::Error>(())
+/// ```
+///
+/// There is no unchecked constructor:
+/// ```compile_fail
+/// let massless = fourforce::Species::<f32>::new(0.0, 1.0);
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -42,7 +55,7 @@ impl<T: Real> Species<T> {
     /// use fourforce::Species;
     /// assert_eq!(Species::<f64>::ELECTRON.rest_energy(), 510_998.95);
     /// ```
-    pub const ELECTRON: Self = Self::new(T::ELECTRON_REST_ENERGY, T::NEG_ONE);
+    pub const ELECTRON: Self = Self::constant(T::ELECTRON_REST_ENERGY, T::NEG_ONE);
     /// Positron: the electron's rest energy, Q = +1.
     ///
     /// # Examples
@@ -50,7 +63,7 @@ impl<T: Real> Species<T> {
     /// use fourforce::Species;
     /// assert_eq!(Species::<f64>::POSITRON.charge(), 1.0);
     /// ```
-    pub const POSITRON: Self = Self::new(T::ELECTRON_REST_ENERGY, T::ONE);
+    pub const POSITRON: Self = Self::constant(T::ELECTRON_REST_ENERGY, T::ONE);
     /// Proton: `mₚc²` = 938.272 088 16 MeV (CODATA 2018), Q = +1.
     ///
     /// # Examples
@@ -58,7 +71,7 @@ impl<T: Real> Species<T> {
     /// use fourforce::Species;
     /// assert_eq!(Species::<f64>::PROTON.rest_energy(), 938_272_088.16);
     /// ```
-    pub const PROTON: Self = Self::new(T::PROTON_REST_ENERGY, T::ONE);
+    pub const PROTON: Self = Self::constant(T::PROTON_REST_ENERGY, T::ONE);
     /// Antiproton: the proton's rest energy, Q = -1.
     ///
     /// # Examples
@@ -66,7 +79,7 @@ impl<T: Real> Species<T> {
     /// use fourforce::Species;
     /// assert_eq!(Species::<f64>::ANTIPROTON.charge(), -1.0);
     /// ```
-    pub const ANTIPROTON: Self = Self::new(T::PROTON_REST_ENERGY, T::NEG_ONE);
+    pub const ANTIPROTON: Self = Self::constant(T::PROTON_REST_ENERGY, T::NEG_ONE);
     /// Negative muon: `m_μc²` = 105.658 3755 MeV (CODATA 2018), Q = -1.
     ///
     /// # Examples
@@ -74,7 +87,7 @@ impl<T: Real> Species<T> {
     /// use fourforce::Species;
     /// assert_eq!(Species::<f64>::MUON.rest_energy(), 105_658_375.5);
     /// ```
-    pub const MUON: Self = Self::new(T::MUON_REST_ENERGY, T::NEG_ONE);
+    pub const MUON: Self = Self::constant(T::MUON_REST_ENERGY, T::NEG_ONE);
     /// Positive muon (antimuon): the muon's rest energy, Q = +1.
     ///
     /// # Examples
@@ -82,7 +95,7 @@ impl<T: Real> Species<T> {
     /// use fourforce::Species;
     /// assert_eq!(Species::<f64>::ANTIMUON.charge(), 1.0);
     /// ```
-    pub const ANTIMUON: Self = Self::new(T::MUON_REST_ENERGY, T::ONE);
+    pub const ANTIMUON: Self = Self::constant(T::MUON_REST_ENERGY, T::ONE);
     /// Deuteron: `m_dc²` = 1875.612 942 57 MeV (CODATA 2018), Q = +1.
     ///
     /// # Examples
@@ -90,7 +103,7 @@ impl<T: Real> Species<T> {
     /// use fourforce::Species;
     /// assert_eq!(Species::<f64>::DEUTERON.rest_energy(), 1_875_612_942.57);
     /// ```
-    pub const DEUTERON: Self = Self::new(T::DEUTERON_REST_ENERGY, T::ONE);
+    pub const DEUTERON: Self = Self::constant(T::DEUTERON_REST_ENERGY, T::ONE);
     /// Triton: `m_tc²` = 2808.921 132 98 MeV (CODATA 2018), Q = +1.
     ///
     /// # Examples
@@ -98,7 +111,7 @@ impl<T: Real> Species<T> {
     /// use fourforce::Species;
     /// assert_eq!(Species::<f64>::TRITON.rest_energy(), 2_808_921_132.98);
     /// ```
-    pub const TRITON: Self = Self::new(T::TRITON_REST_ENERGY, T::ONE);
+    pub const TRITON: Self = Self::constant(T::TRITON_REST_ENERGY, T::ONE);
     /// Helion (³He²⁺): `m_hc²` = 2808.391 607 43 MeV (CODATA 2018), Q = +2.
     ///
     /// # Examples
@@ -106,7 +119,7 @@ impl<T: Real> Species<T> {
     /// use fourforce::Species;
     /// assert_eq!(Species::<f64>::HELION.charge(), 2.0);
     /// ```
-    pub const HELION: Self = Self::new(T::HELION_REST_ENERGY, T::TWO);
+    pub const HELION: Self = Self::constant(T::HELION_REST_ENERGY, T::TWO);
     /// Alpha particle (⁴He²⁺): `m_αc²` = 3727.379 4066 MeV (CODATA 2018), Q = +2.
     ///
     /// # Examples
@@ -114,22 +127,22 @@ impl<T: Real> Species<T> {
     /// use fourforce::Species;
     /// assert_eq!(Species::<f64>::ALPHA.rest_energy(), 3_727_379_406.6);
     /// ```
-    pub const ALPHA: Self = Self::new(T::ALPHA_REST_ENERGY, T::TWO);
+    pub const ALPHA: Self = Self::constant(T::ALPHA_REST_ENERGY, T::TWO);
 
-    /// Builds a species from a rest energy (eV) and a charge (units of `e`), without checks.
-    ///
-    /// For `const` tables of trusted values; see [`try_new`](Self::try_new) for values from
-    /// outside.
+    /// Neutron: `m_nc²` = 939.565 420 52 MeV (CODATA 2018), Q = 0 (it has a speed and a
+    /// momentum, but no rigidity and no deflection: those refuse it with [`Error::ZeroCharge`]).
     ///
     /// # Examples
     /// ```
     /// use fourforce::Species;
-    /// // An invented singly charged ion of 40 GeV rest energy.
-    /// const ION: Species<f32> = Species::new(40.0e9, 1.0);
-    /// assert_eq!(ION.rest_energy(), 40.0e9);
+    /// assert_eq!(Species::<f64>::NEUTRON.rest_energy(), 939_565_420.52);
+    /// assert_eq!(Species::<f64>::NEUTRON.charge(), 0.0);
     /// ```
-    #[must_use]
-    pub const fn new(rest_energy: T, charge: T) -> Self {
+    pub const NEUTRON: Self = Self::constant(T::NEUTRON_REST_ENERGY, T::ZERO);
+
+    /// A named species from its published values; private, so that every species outside this
+    /// module comes through a check.
+    const fn constant(rest_energy: T, charge: T) -> Self {
         Self {
             rest_energy,
             charge,
@@ -175,7 +188,7 @@ impl<T: Real> Species<T> {
         if rest_energy < Self::MIN_REST_ENERGY {
             return Err(Error::RestEnergyTooSmall);
         }
-        Ok(Self::new(rest_energy, charge))
+        Ok(Self::constant(rest_energy, charge))
     }
 
     /// Builds a positive ion from the neutral atom's mass with `electrons_removed` electrons taken
@@ -265,6 +278,46 @@ impl<T: Real> Species<T> {
     }
 }
 
+/// The `const` constructor of one precision (float comparisons in `const fn` need a concrete
+/// type).
+macro_rules! const_constructor {
+    ($t:ty) => {
+        impl Species<$t> {
+            /// [`try_new`](Self::try_new) as a `const fn`, for `const` tables of custom species:
+            /// the same checks, in the same order, with the same errors.
+            ///
+            /// # Errors
+            /// As [`try_new`](Self::try_new).
+            ///
+            /// # Examples
+            /// ```
+            /// use fourforce::{Error, Species};
+            #[doc = concat!("// An invented singly charged ion of 40 GeV rest energy, checked at compile time.")]
+            #[doc = concat!("const ION: Species<", stringify!($t), "> = match Species::<", stringify!($t), ">::try_new_const(40.0e9, 1.0) {")]
+            ///     Ok(s) => s,
+            ///     Err(_) => panic!("not a species"),
+            /// };
+            /// assert_eq!(ION.rest_energy(), 40.0e9);
+            #[doc = concat!("assert_eq!(Species::<", stringify!($t), ">::try_new_const(0.0, 1.0), Err(Error::NonPositiveMass));")]
+            /// ```
+            pub const fn try_new_const(rest_energy: $t, charge: $t) -> Result<Self, Error> {
+                if !rest_energy.is_finite() || !charge.is_finite() {
+                    return Err(Error::NonFinite);
+                }
+                if rest_energy <= 0.0 {
+                    return Err(Error::NonPositiveMass);
+                }
+                if rest_energy < 1.0 {
+                    return Err(Error::RestEnergyTooSmall);
+                }
+                Ok(Self::constant(rest_energy, charge))
+            }
+        }
+    };
+}
+const_constructor!(f32);
+const_constructor!(f64);
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -284,6 +337,27 @@ mod tests {
         assert!((c6.rest_energy() / 11_174_864_265.448 - 1.0).abs() < 2e-15);
         let c6f = Species::<f32>::try_from_atom(12.0, 6, 1030.108).unwrap();
         assert!((f64::from(c6f.rest_energy()) / 11_174_864_265.448 - 1.0).abs() < 2.0 * 1.2e-7);
+    }
+
+    #[test]
+    fn the_const_constructor_agrees_with_try_new() {
+        for (m, q) in [
+            (1.0e9, 1.0),
+            (0.0, 1.0),
+            (-5.0, 1.0),
+            (f64::NAN, 1.0),
+            (0.5, 1.0),
+            (1.0, f64::INFINITY),
+            (1.0, 0.0),
+        ] {
+            assert_eq!(Species::<f64>::try_new_const(m, q), Species::try_new(m, q));
+            #[allow(clippy::cast_possible_truncation)]
+            let (m32, q32) = (m as f32, q as f32);
+            assert_eq!(
+                Species::<f32>::try_new_const(m32, q32),
+                Species::try_new(m32, q32)
+            );
+        }
     }
 
     #[test]

@@ -89,7 +89,7 @@ fn run<T: Bits>(input: &mut Input<'_>) {
         0 => Species::ELECTRON,
         1 => Species::PROTON,
         2 => Species::ALPHA,
-        3 => Species::new(T::NEUTRON_REST_ENERGY, T::ZERO),
+        3 => Species::NEUTRON,
         _ => match Species::try_new(input.real::<T>(), input.real::<T>()) {
             Ok(s) => s,
             Err(_) => return,

@@ -49,7 +49,7 @@ fn run<T: Bits>(input: &mut Input<'_>) {
     let species = match selector % 4 {
         0 => Species::ELECTRON,
         1 => Species::PROTON,
-        2 => Species::new(T::NEUTRON_REST_ENERGY, T::ZERO),
+        2 => Species::NEUTRON,
         _ => match Species::try_new(input.real::<T>(), input.real::<T>()) {
             Ok(s) => s,
             Err(_) => return,

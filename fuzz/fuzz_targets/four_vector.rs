@@ -89,7 +89,9 @@ fn run<T: Bits>(input: &mut Input<'_>) {
         }
         3 => {
             let (m, q, pc) = (input.real::<T>(), input.real::<T>(), three::<T>(input));
-            let s = Species::new(m, q);
+            let Ok(s) = Species::try_new(m, q) else {
+                return;
+            };
             match FourVector::try_four_velocity_from_momentum(s, pc) {
                 Ok(u) => {
                     assert!(pc.is_finite() && m.is_finite() && m > T::ZERO);

@@ -12,7 +12,7 @@ fn species<T: Bits>(input: &mut Input<'_>) -> Option<Species<T>> {
         1 => Species::PROTON,
         2 => Species::ALPHA,
         3 => Species::ANTIPROTON,
-        4 => Species::new(T::NEUTRON_REST_ENERGY, T::ZERO),
+        4 => Species::NEUTRON,
         _ => Species::try_new(input.real(), input.real()).ok()?,
     })
 }

@@ -41,7 +41,10 @@ fn run<T: Bits>(input: &mut Input<'_>) {
         0 => Species::ELECTRON,
         1 => Species::PROTON,
         2 => Species::ALPHA,
-        _ => Species::new(input.real::<T>(), input.real::<T>()),
+        _ => match Species::try_new(input.real::<T>(), input.real::<T>()) {
+            Ok(s) => s,
+            Err(_) => return,
+        },
     };
     if known::tiny_rest_energy(species.rest_energy()) {
         return;

@@ -114,7 +114,9 @@ fn run<T: Real + FromStr + LowerExp>(text: &str) {
             let _ = e.to_string();
             match &e {
                 LineError::FieldCount(n) => assert_ne!(*n, 2),
-                LineError::Species(SpeciesError::Unknown(s)) => assert!(!NAMES.contains(&s.as_str())),
+                LineError::Species(SpeciesError::Unknown(s)) => {
+                    assert!(!NAMES.contains(&s.as_str()))
+                }
                 _ => {}
             }
         }

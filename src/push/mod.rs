@@ -383,14 +383,14 @@ pub struct StepFactors<T: Real> {
 }
 
 impl<T: Real> StepFactors<T> {
-    /// The factors for `species` and a step of `dt` seconds.
+    /// The factors for `species` and a step of `dt_s` seconds.
     ///
     /// A neutral species (Q = 0) is accepted: it drifts in a straight line.
     ///
     /// # Errors
-    /// [`Error::NonFinite`] if `dt`, the charge or the rest energy is not finite;
-    /// [`Error::NonPositiveLength`] if `dt ≤ 0`; [`Error::NonPositiveMass`] if the rest energy is
-    /// not positive; [`Error::Overflow`] if a factor does not fit the precision.
+    /// [`Error::NonFinite`] if `dt_s` is not finite; [`Error::NonPositiveLength`] if `dt_s ≤ 0`;
+    /// [`Error::Overflow`] if a factor does not fit the precision (a charge far above the rest
+    /// energy in eV, over a long step).
     ///
     /// # Examples
     /// ```
@@ -398,12 +398,9 @@ impl<T: Real> StepFactors<T> {
     /// use fourforce::push::StepFactors;
     /// assert_eq!(StepFactors::try_new(Species::<f32>::ELECTRON, 0.0).err(), Some(Error::NonPositiveLength));
     /// ```
-    pub fn try_new(species: Species<T>, dt: T) -> Result<Self, Error> {
-        let m = crate::try_finite(species.rest_energy())?;
-        crate::try_finite(species.charge())?;
-        if m <= T::ZERO {
-            return Err(Error::NonPositiveMass);
-        }
+    pub fn try_new(species: Species<T>, dt_s: T) -> Result<Self, Error> {
+        // The species' rest energy (≥ 1 eV) and charge are finite: its invariant.
+        let dt = dt_s;
         if crate::try_finite(dt)? <= T::ZERO {
             return Err(Error::NonPositiveLength);
         }
@@ -566,7 +563,7 @@ pub trait Pusher<T: Real>: Sized {
         field: &FieldTensor<T>,
     ) -> (ThreeVector<T>, T);
 
-    /// Builds the pusher for `species` and a step of `dt` seconds.
+    /// Builds the pusher for `species` and a step of `dt_s` seconds.
     ///
     /// # Errors
     /// As [`StepFactors::try_new`].
@@ -578,8 +575,8 @@ pub trait Pusher<T: Real>: Sized {
     /// assert_eq!(pusher.factors().dt(), 1.0e-12);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
-    fn try_new(species: Species<T>, dt: T) -> Result<Self, Error> {
-        StepFactors::try_new(species, dt).map(Self::from_factors)
+    fn try_new(species: Species<T>, dt_s: T) -> Result<Self, Error> {
+        StepFactors::try_new(species, dt_s).map(Self::from_factors)
     }
 
     /// Advances `particle` by one step `Δt` in the fields of `source` (leapfrog).

@@ -132,14 +132,9 @@ fn errors_at_the_edges() {
         fast::try_flight_time(p, 1.0e6, f32::NAN),
         Err(Error::NonFinite)
     );
-    let neutral = Species::new(939.565_4e6_f32, 0.0);
     assert_eq!(
-        fast::try_magnetic_rigidity(neutral, 1.0e6),
+        fast::try_magnetic_rigidity(Species::NEUTRON, 1.0e6),
         Err(Error::ZeroCharge)
-    );
-    assert_eq!(
-        fast::try_beta(Species::new(0.0, 1.0), 1.0e6),
-        Err(Error::NonPositiveMass)
     );
     // Far above the rest energy β rounds to 1 and the flight time to light's, never below it.
     let e = Species::<f32>::ELECTRON;

@@ -25,5 +25,6 @@ mod motion_steer;
 mod orbit;
 mod reliability_mutants;
 mod reliability_regressions;
+mod species;
 mod transfer;
 mod witness;

@@ -297,7 +297,7 @@ fn impossible_elements_are_typed_errors<T: Real>() {
         Err(Error::AngleOutOfRange)
     );
     // a neutral particle in a corrector
-    let n = Motion::try_from_kinetic_energy(Species::new(t(939.565e6), T::ZERO), t(1e6)).unwrap();
+    let n = Motion::try_from_kinetic_energy(Species::<T>::NEUTRON, t(1e6)).unwrap();
     let kick = Element::MagneticKick {
         integrated_field_tm: t(1e-3),
         direction: KickDirection::Horizontal,

@@ -80,8 +80,7 @@ fn centring_field_gives_energy<T: Real>() {
         w.check_centring_field(t(1.0), t(-2.0)),
         Verdict::Impossible(Error::NonPositiveLength)
     );
-    let neutral =
-        EnergyWindow::try_around(Species::new(t(939.565e6), T::ZERO), t(1e6), t(0.1)).unwrap();
+    let neutral = EnergyWindow::try_around(Species::<T>::NEUTRON, t(1e6), t(0.1)).unwrap();
     assert_eq!(
         neutral.check_centring_field(t(1.0), t(1.0)),
         Verdict::Impossible(Error::ZeroCharge)

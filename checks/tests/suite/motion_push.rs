@@ -152,7 +152,7 @@ fn gyration_rows() -> [GyrationRow; 5] {
 }
 
 fn species_as<T: Real>(s: Species<f64>) -> Species<T> {
-    Species::new(T::from_f64(s.rest_energy()), T::from_f64(s.charge()))
+    Species::try_new(T::from_f64(s.rest_energy()), T::from_f64(s.charge())).unwrap()
 }
 
 /// Runs one period and more in the row's field with 2000 steps per period; returns the measured
@@ -785,7 +785,7 @@ fn sums_of_sources_add() {
 
 #[test]
 fn neutral_species_drifts_straight() {
-    let neutron = Species::new(939_565_420.52_f64, 0.0);
+    let neutron = Species::<f64>::NEUTRON;
     let field = FieldTensor::try_from_fields(v3(1.0e6, 0.0, 0.0), v3(0.0, 0.0, 1.0)).unwrap();
     let pusher = Boris::try_new(neutron, 1.0e-9).unwrap();
     let mut p = Particle::try_new(ThreeVector::ZERO, v3(0.0, 0.75, 0.0), 0.0).unwrap();

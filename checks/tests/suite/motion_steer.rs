@@ -129,8 +129,7 @@ fn bad_inputs_are_typed_errors<T: Real>() {
         setup.try_next_setting(&beam, T::INFINITY, T::ZERO, T::ZERO),
         Err(Error::NonFinite)
     );
-    let neutral =
-        Motion::try_from_kinetic_energy(Species::new(t(939.565e6), T::ZERO), t(1e6)).unwrap();
+    let neutral = Motion::try_from_kinetic_energy(Species::<T>::NEUTRON, t(1e6)).unwrap();
     assert_eq!(
         setup.try_next_setting(&neutral, t(1e-3), T::ZERO, T::ZERO),
         Err(Error::ZeroCharge)

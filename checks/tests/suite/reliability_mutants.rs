@@ -153,11 +153,8 @@ macro_rules! sharper_edges {
             #[test]
             fn four_velocity_edges() {
                 let pc = ThreeVector::new(1.0, 0.0, 0.0);
-                let inf = Species::new(<$t>::INFINITY, 1.0);
-                assert_eq!(
-                    FourVector::try_four_velocity_from_momentum(inf, pc),
-                    Err(Error::NonFinite)
-                );
+                assert_eq!(Species::try_new(<$t>::INFINITY, 1.0), Err(Error::NonFinite));
+                assert!(FourVector::try_four_velocity_from_momentum(Species::PROTON, pc).is_ok());
                 let nan = ThreeVector::new(<$t>::NAN, 0.0, 0.0);
                 assert_eq!(
                     FourVector::try_four_velocity_from_momentum(Species::PROTON, nan),

@@ -73,13 +73,14 @@ regressions!(f64);
 #[test]
 fn four_velocity_whose_time_part_overflows_is_refused() {
     use fourforce::{FourVector, Species};
-    let m = Species::<f32>::new(1.0, 1.0);
+    let m = Species::<f32>::try_new(1.0, 1.0).unwrap();
+    let m32 = m;
     let pc = ThreeVector::new(-2.562_126e38_f32, -2.562_126e38, -2.562_126e38);
     assert_eq!(
         FourVector::try_four_velocity_from_momentum(m, pc),
         Err(Error::Overflow)
     );
-    let m = Species::<f64>::new(1.0, 1.0);
+    let m = Species::<f64>::try_new(1.0, 1.0).unwrap();
     let big = f64::MAX * 0.75;
     let pc = ThreeVector::new(big, big, big);
     assert_eq!(
@@ -88,7 +89,7 @@ fn four_velocity_whose_time_part_overflows_is_refused() {
     );
     // The largest that fits is still accepted.
     let pc = ThreeVector::new(1.0e38_f32, 0.0, 0.0);
-    let u = FourVector::try_four_velocity_from_momentum(Species::<f32>::new(1.0, 1.0), pc).unwrap();
+    let u = FourVector::try_four_velocity_from_momentum(m32, pc).unwrap();
     assert!(u.time.is_finite());
 }
 
