@@ -329,7 +329,7 @@ impl<T: Real> Estimate<T> {
             sigma_ev,
         }
         // The species plays no part in a readback.
-        .try_estimate(Species::new(T::ONE, T::ONE))
+        .try_estimate(Species::PROTON)
     }
 
     /// Kinetic energy `T` in eV.
