@@ -79,9 +79,57 @@
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
+use crate::beamline::KickDirection;
 use crate::check::MovingWindow;
 use crate::svd;
-use crate::{Error, Real, try_finite};
+use crate::transfer::TransferMap;
+use crate::{Error, Motion, Real, optics, try_finite};
+
+/// A place along the line where the response is read or made: a monitor or a corrector.
+///
+/// # Examples
+/// ```
+/// use fourforce::beamline::KickDirection;
+/// use fourforce::orbit::{Kick, Place};
+/// use fourforce::{Motion, Species};
+/// let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 10.0e6)?;
+/// let h = Place::Corrector { index: 0, kick: Kick::Magnetic, direction: KickDirection::Horizontal, motion: p };
+/// assert_ne!(h, Place::Monitor(0));
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum Place<T: Real> {
+    /// Monitor `i` reads `(x, y)` here.
+    Monitor(usize),
+    /// Corrector `index` kicks here, along `direction`, on the reference beam `motion` there.
+    Corrector {
+        /// The corrector's index in the loop.
+        index: usize,
+        /// Magnetic (`θ = ±∫B dl/Bρ`) or electrostatic (`θ = ±∫E dl/Eρ`).
+        kick: Kick,
+        /// The direction of the kick.
+        direction: KickDirection<T>,
+        /// The reference state of motion at the corrector.
+        motion: Motion<T>,
+    },
+}
+
+/// How a corrector kicks.
+///
+/// # Examples
+/// ```
+/// use fourforce::orbit::Kick;
+/// assert_ne!(Kick::Magnetic, Kick::Electrostatic);
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum Kick {
+    /// Setting in T m: `θ = ±∫B dl / Bρ`.
+    Magnetic,
+    /// Setting in V (`∫E dl`): `θ = ±∫E dl / Eρ`.
+    Electrostatic,
+}
 
 /// The response of the monitor readings to the corrector settings at one energy.
 ///
@@ -133,6 +181,97 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
         }
         Ok(Self {
             per_kick: per_kick_m_per_rad,
+            kick_per_setting,
+        })
+    }
+
+    /// The response of a line given as its places in beam order, each with the transfer map from
+    /// the place before it (or from the start) to it: a corrector's kick `(0, cos φ, 0, sin φ, 0,
+    /// 0)` per radian is carried through every map downstream, and each monitor reads its `x`
+    /// and `y` (`R₁₂, R₁₄, R₃₂, R₃₄` of the map between them); monitors upstream read 0.
+    /// `κ_j = ±1/Bρ` or `±1/Eρ` comes from the corrector's `motion`.
+    ///
+    /// # Errors
+    /// [`Error::OutOfBounds`] for an index `≥ M` (`≥ C`) or a monitor or corrector that does not
+    /// appear exactly once; [`Error::ZeroCharge`] for a neutral beam; [`Error::Overflow`] for
+    /// a rigidity or a response that does not fit the precision; [`Error::NonFinite`] for a
+    /// non-finite kick direction.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::beamline::KickDirection;
+    /// use fourforce::orbit::{Kick, Place, Response};
+    /// use fourforce::transfer::TransferMap;
+    /// use fourforce::{Motion, Species};
+    /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 10.0e6)?;
+    /// let places = [
+    ///     (TransferMap::IDENTITY, Place::Corrector { index: 0, kick: Kick::Magnetic, direction: KickDirection::Vertical, motion: p }),
+    ///     (TransferMap::try_drift(&p, 2.0)?, Place::Monitor(0)),
+    /// ];
+    /// let r = Response::<f64, 1, 1>::try_from_places(&places)?;
+    /// // 2 m of drift: y moves 2 m per rad, θ = ∫B dl/Bρ with Bρ = 0.45763 T m
+    /// assert!((r.reading_per_setting(0, 1, 0).unwrap() - 2.0 / p.try_magnetic_rigidity()?).abs() < 1e-14);
+    /// assert_eq!(r.reading_per_setting(0, 0, 0), Some(0.0));
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_from_places(places: &[(TransferMap<T>, Place<T>)]) -> Result<Self, Error> {
+        let mut per_kick = [[[T::ZERO; M]; 2]; C];
+        let mut kick_per_setting = [T::ZERO; C];
+        let mut seen_monitors = 0_u64;
+        let mut seen_correctors = 0_u64;
+        for (start, (_, place)) in places.iter().enumerate() {
+            match *place {
+                Place::Monitor(i) => {
+                    if i >= M.min(64) || bit(seen_monitors, i) {
+                        return Err(Error::OutOfBounds);
+                    }
+                    seen_monitors |= 1 << i;
+                }
+                Place::Corrector {
+                    index,
+                    kick,
+                    direction,
+                    motion,
+                } => {
+                    if index >= C.min(64) || bit(seen_correctors, index) {
+                        return Err(Error::OutOfBounds);
+                    }
+                    seen_correctors |= 1 << index;
+                    let kappa = match kick {
+                        Kick::Magnetic => optics::try_kick_angle(&motion, T::ONE)?,
+                        Kick::Electrostatic => {
+                            let sign = T::ONE.copysign(motion.species().charge());
+                            try_finite(sign / motion.try_electric_rigidity()?)
+                                .map_err(|_| Error::Overflow)?
+                        }
+                    };
+                    let (Some(k), Some(column)) =
+                        (kick_per_setting.get_mut(index), per_kick.get_mut(index))
+                    else {
+                        return Err(Error::OutOfBounds);
+                    };
+                    *k = kappa;
+                    let (cx, cy) = direction.components();
+                    let mut v = [T::ZERO, try_finite(cx)?, T::ZERO, try_finite(cy)?, T::ZERO, T::ZERO];
+                    for (map, downstream) in places.iter().skip(start + 1) {
+                        v = map.apply(v);
+                        if let Place::Monitor(i) = downstream {
+                            for (p, value) in [v[0], v[2]].into_iter().enumerate() {
+                                if let Some(r) = column.get_mut(p).and_then(|c| c.get_mut(*i)) {
+                                    *r = try_finite(value).map_err(|_| Error::Overflow)?;
+                                }
+                            }
+                        }
+                    }
+                }
+            }
+        }
+        let all = |n: usize| if n >= 64 { u64::MAX } else { (1_u64 << n) - 1 };
+        if seen_monitors != all(M) || seen_correctors != all(C) {
+            return Err(Error::OutOfBounds);
+        }
+        Ok(Self {
+            per_kick,
             kick_per_setting,
         })
     }
@@ -1351,4 +1490,122 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
     out.hold = hold;
     out.free = Some(free);
     Ok(())
+}
+
+/// A corrector's calibration: its setting (∫B dl in T m, or ∫E dl in V for a deflector) as a
+/// strictly increasing function of its drive (the supply current in A, or the supply voltage in
+/// V), from `P` measured points, and the inverse for the set point.
+///
+/// Interpolation is piecewise linear: monotone by construction, its inverse is the same kind of
+/// function (exact to rounding, no iteration), and it never overshoots between points. Away from
+/// saturation a magnet's excitation curve is nearly straight, so a few points carry it; near
+/// saturation, measure more densely. No extrapolation: outside the table is an error.
+///
+/// # Examples
+/// ```
+/// use fourforce::orbit::Calibration;
+/// // An invented corrector: linear to 8 A, saturating beyond.
+/// let cal = Calibration::try_new([-10.0_f64, -8.0, 0.0, 8.0, 10.0], [-4.6e-3, -4.0e-3, 0.0, 4.0e-3, 4.6e-3])?;
+/// assert_eq!(cal.try_setting(4.0)?, 2.0e-3);
+/// assert_eq!(cal.try_drive(4.3e-3)?, 9.0);
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Calibration<T: Real, const P: usize> {
+    drive: [T; P],
+    setting: [T; P],
+}
+
+impl<T: Real, const P: usize> Calibration<T, P> {
+    /// A calibration through the points `(drive[i], setting[i])`.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::Empty`] for fewer than two points; [`Error::NotMonotone`]
+    /// unless both coordinates strictly increase.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, orbit::Calibration};
+    /// assert_eq!(Calibration::try_new([0.0_f32, 1.0, 1.0], [0.0, 1.0, 2.0]), Err(Error::NotMonotone));
+    /// assert_eq!(Calibration::try_new([0.0_f32], [0.0]), Err(Error::Empty));
+    /// ```
+    pub fn try_new(drive: [T; P], setting: [T; P]) -> Result<Self, Error> {
+        if P < 2 {
+            return Err(Error::Empty);
+        }
+        for x in drive.iter().chain(&setting) {
+            try_finite(*x)?;
+        }
+        let increasing = |v: &[T; P]| v.windows(2).all(|w| matches!(w, [a, b] if a < b));
+        if !increasing(&drive) || !increasing(&setting) {
+            return Err(Error::NotMonotone);
+        }
+        Ok(Self { drive, setting })
+    }
+
+    /// The setting at the drive `drive` (A or V).
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::OutsideCalibration`] outside the table's drives.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, orbit::Calibration};
+    /// let cal = Calibration::try_new([0.0_f32, 10.0], [0.0, 5.0e-3])?;
+    /// assert_eq!(cal.try_setting(10.0)?, 5.0e-3);
+    /// assert_eq!(cal.try_setting(10.5), Err(Error::OutsideCalibration));
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_setting(&self, drive: T) -> Result<T, Error> {
+        interpolate(&self.drive, &self.setting, try_finite(drive)?)
+    }
+
+    /// The drive (A or V) that gives the setting `setting` (T m or V): the inverse.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`]; [`Error::OutsideCalibration`] outside the table's settings.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Calibration;
+    /// let cal = Calibration::try_new([0.0_f64, 10.0], [0.0, 5.0e-3])?;
+    /// assert_eq!(cal.try_drive(2.5e-3)?, 5.0);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_drive(&self, setting: T) -> Result<T, Error> {
+        interpolate(&self.setting, &self.drive, try_finite(setting)?)
+    }
+
+    /// The settings at the ends of the table, `(lowest, highest)`: the corrector's range.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Calibration;
+    /// let cal = Calibration::try_new([-5.0_f32, 5.0], [-2.0e-3, 2.0e-3])?;
+    /// assert_eq!(cal.setting_range(), (-2.0e-3, 2.0e-3));
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub fn setting_range(&self) -> (T, T) {
+        (
+            self.setting.first().copied().unwrap_or(T::ZERO),
+            self.setting.last().copied().unwrap_or(T::ZERO),
+        )
+    }
+}
+
+/// `y(x)` on the polyline through `(xs[i], ys[i])`, `xs` strictly increasing.
+fn interpolate<T: Real>(xs: &[T], ys: &[T], x: T) -> Result<T, Error> {
+    for (xw, yw) in xs.windows(2).zip(ys.windows(2)) {
+        if let ([x0, x1], [y0, y1]) = (xw, yw) {
+            if x >= *x0 && x <= *x1 {
+                if x == *x1 {
+                    return Ok(*y1);
+                }
+                return Ok(*y0 + (x - *x0) * ((*y1 - *y0) / (*x1 - *x0)));
+            }
+        }
+    }
+    Err(Error::OutsideCalibration)
 }
