@@ -189,7 +189,8 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
     /// the place before it (or from the start) to it: a corrector's kick `(0, cos φ, 0, sin φ, 0,
     /// 0)` per radian is carried through every map downstream, and each monitor reads its `x`
     /// and `y` (`R₁₂, R₁₄, R₃₂, R₃₄` of the map between them); monitors upstream read 0.
-    /// `κ_j = ±1/Bρ` or `±1/Eρ` comes from the corrector's `motion`.
+    /// `κ_j = ±1/Bρ` or `±1/Eρ` comes from the corrector's `motion`. One pass over the places
+    /// (any iterator, so firmware can compute the maps as it goes), `C` rays in memory.
     ///
     /// # Errors
     /// [`Error::OutOfBounds`] for an index `≥ M` (`≥ C`) or a monitor or corrector that does not
@@ -208,24 +209,44 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
     ///     (TransferMap::IDENTITY, Place::Corrector { index: 0, kick: Kick::Magnetic, direction: KickDirection::Vertical, motion: p }),
     ///     (TransferMap::try_drift(&p, 2.0)?, Place::Monitor(0)),
     /// ];
-    /// let r = Response::<f64, 1, 1>::try_from_places(&places)?;
+    /// let r = Response::<f64, 1, 1>::try_from_places(places)?;
     /// // 2 m of drift: y moves 2 m per rad, θ = ∫B dl/Bρ with Bρ = 0.45763 T m
     /// assert!((r.reading_per_setting(0, 1, 0).unwrap() - 2.0 / p.try_magnetic_rigidity()?).abs() < 1e-14);
     /// assert_eq!(r.reading_per_setting(0, 0, 0), Some(0.0));
     /// # Ok::<(), fourforce::Error>(())
     /// ```
-    pub fn try_from_places(places: &[(TransferMap<T>, Place<T>)]) -> Result<Self, Error> {
+    pub fn try_from_places<I>(places: I) -> Result<Self, Error>
+    where
+        I: IntoIterator<Item = (TransferMap<T>, Place<T>)>,
+    {
         let mut per_kick = [[[T::ZERO; M]; 2]; C];
         let mut kick_per_setting = [T::ZERO; C];
+        // One pass: the rays of the correctors met so far, carried through each map.
+        let mut rays = [[T::ZERO; 6]; C];
         let mut seen_monitors = 0_u64;
         let mut seen_correctors = 0_u64;
-        for (start, (_, place)) in places.iter().enumerate() {
-            match *place {
+        for (map, place) in places {
+            for (j, ray) in rays.iter_mut().enumerate() {
+                if bit(seen_correctors, j) {
+                    *ray = map.apply(*ray);
+                }
+            }
+            match place {
                 Place::Monitor(i) => {
                     if i >= M.min(64) || bit(seen_monitors, i) {
                         return Err(Error::OutOfBounds);
                     }
                     seen_monitors |= 1 << i;
+                    for (j, (column, ray)) in per_kick.iter_mut().zip(&rays).enumerate() {
+                        if !bit(seen_correctors, j) {
+                            continue;
+                        }
+                        for (plane, value) in column.iter_mut().zip([ray[0], ray[2]]) {
+                            if let Some(r) = plane.get_mut(i) {
+                                *r = try_finite(value).map_err(|_| Error::Overflow)?;
+                            }
+                        }
+                    }
                 }
                 Place::Corrector {
                     index,
@@ -245,24 +266,21 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
                                 .map_err(|_| Error::Overflow)?
                         }
                     };
-                    let (Some(k), Some(column)) =
-                        (kick_per_setting.get_mut(index), per_kick.get_mut(index))
+                    let (Some(k), Some(ray)) =
+                        (kick_per_setting.get_mut(index), rays.get_mut(index))
                     else {
                         return Err(Error::OutOfBounds);
                     };
                     *k = kappa;
                     let (cx, cy) = direction.components();
-                    let mut v = [T::ZERO, try_finite(cx)?, T::ZERO, try_finite(cy)?, T::ZERO, T::ZERO];
-                    for (map, downstream) in places.iter().skip(start + 1) {
-                        v = map.apply(v);
-                        if let Place::Monitor(i) = downstream {
-                            for (p, value) in [v[0], v[2]].into_iter().enumerate() {
-                                if let Some(r) = column.get_mut(p).and_then(|c| c.get_mut(*i)) {
-                                    *r = try_finite(value).map_err(|_| Error::Overflow)?;
-                                }
-                            }
-                        }
-                    }
+                    *ray = [
+                        T::ZERO,
+                        try_finite(cx)?,
+                        T::ZERO,
+                        try_finite(cy)?,
+                        T::ZERO,
+                        T::ZERO,
+                    ];
                 }
             }
         }
@@ -621,8 +639,8 @@ pub enum State {
     Correcting,
     /// The monitors in use cannot determine the correctors of a plane: no corrector moved.
     Hold {
-        /// Independent readings left (singular values above the cutoff) in the plane that lacks
-        /// them.
+        /// Independent readings left (singular values above the rounding level) in the plane
+        /// that lacks them.
         rank: u8,
         /// Correctors to determine in that plane.
         correctors: u8,
@@ -1442,11 +1460,18 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
         let ss = s.get(block.offset..end).ok_or(Error::OutOfBounds)?;
         let alpha = (tuning.regularisation * sigma_max).scalbn(-block.scale_exp);
         let floor = (tuning.cutoff * sigma_max).scalbn(-block.scale_exp);
+        // Independent readings: singular values above the rounding level of the decomposition
+        // (16 ε √rows σ_max); the cutoff only truncates, it does not make a plane hold.
+        let rows_t = T::from_u32(u32::try_from(block.rows).unwrap_or(u32::MAX));
+        let noise =
+            (T::from_u32(16) * T::EPSILON * rows_t.sqrt() * sigma_max).scalbn(-block.scale_exp);
         let mut rank = 0_u8;
         let mut factors = [T::ZERO; C];
         for (f, sigma) in factors.iter_mut().zip(ss) {
-            if *sigma > floor && *sigma > T::ZERO {
+            if *sigma > noise {
                 rank = rank.saturating_add(1);
+            }
+            if *sigma > floor && *sigma > noise {
                 *f = T::ONE / (*sigma * *sigma + alpha * alpha);
             }
         }
