@@ -45,6 +45,9 @@ const QUAD_ERROR: f64 = 1.03;
 const ENTRY: [f64; 4] = [1.5e-3, 0.4e-3, -1.0e-3, 0.3e-3];
 const SHIFTED_ENTRY: [f64; 4] = [1.5e-3, 1.4e-3, -1.0e-3, 0.3e-3];
 
+/// A place of the line with the map that leads to it, or why it could not be built.
+type Step<T> = Result<(TransferMap<T>, Place<T>), Error>;
+
 /// Monitor `i` sits at s = 2.4 i + 1.8 m.
 pub fn monitor_s_m(i: usize) -> f64 {
     CELL_M * i as f64 + 1.8
@@ -52,13 +55,10 @@ pub fn monitor_s_m(i: usize) -> f64 {
 
 /// The places of the line in beam order with the maps between them, computed as the iterator
 /// goes (nothing stored), at the kinetic energy `kinetic_ev`, quadrupoles scaled by `quad_scale`.
-fn places<T: Real>(
-    motion: Motion<T>,
-    quad_scale: T,
-) -> impl Iterator<Item = Result<(TransferMap<T>, Place<T>), Error>> {
+fn places<T: Real>(motion: Motion<T>, quad_scale: T) -> impl Iterator<Item = Step<T>> {
     let gl = T::from_f64(QUAD_T) * quad_scale;
     (0..CELLS).flat_map(move |cell| {
-        let mut out: [Option<Result<(TransferMap<T>, Place<T>), Error>>; 3] = [None, None, None];
+        let mut out: [Option<Step<T>>; 3] = [None, None, None];
         let drift = |l: f64| TransferMap::try_drift(&motion, T::from_f64(l));
         let corrector = |index: usize, direction| Place::Corrector {
             index,
@@ -117,8 +117,8 @@ pub fn try_response<T: Real>(
 /// Puts the 0.6 m drift that follows each monitor in front of the next map.
 fn tail_drifts<T: Real>(
     motion: Motion<T>,
-    inner: impl Iterator<Item = Result<(TransferMap<T>, Place<T>), Error>>,
-) -> impl Iterator<Item = Result<(TransferMap<T>, Place<T>), Error>> {
+    inner: impl Iterator<Item = Step<T>>,
+) -> impl Iterator<Item = Step<T>> {
     let mut after_monitor = false;
     inner.map(move |p| {
         let (map, place) = p?;
