@@ -38,6 +38,7 @@ macro_rules! subcommands {
 subcommands! {
     Table => table,
     Map => map,
+    Energy => energy,
 }
 
 const ABOUT: &str = "Relativistic charged-particle kinematics on the host (the fourforce crate).";
