@@ -542,3 +542,30 @@ fn energy_step_rescales_set_points() {
         Err(Error::NonFinite)
     );
 }
+
+/// Calibration: the inverse of the piecewise-linear map returns the drive within 4 ε of the
+/// interval's scale (both precisions); outside the table is an error (invented table).
+#[test]
+fn calibration_inverse_within_a_few_eps() {
+    use fourforce::orbit::Calibration;
+    let a = [-10.0, -8.0, -4.0, 0.0, 4.0, 8.0, 10.0];
+    let tm = [-2.2e-3, -1.9e-3, -0.95e-3, 0.0, 0.95e-3, 1.9e-3, 2.2e-3];
+    let c64 = Calibration::try_new(a, tm).unwrap();
+    let c32 = Calibration::try_new(a.map(|x| x as f32), tm.map(|x| x as f32)).unwrap();
+    for k in 0..=2000 {
+        let drive = -10.0 + 0.01 * f64::from(k);
+        let back = c64.try_drive(c64.try_setting(drive).unwrap()).unwrap();
+        assert!(
+            (back - drive).abs() <= 4.0 * f64::EPSILON * 10.0,
+            "{drive}: {back}"
+        );
+        let d32 = drive as f32;
+        let back = c32.try_drive(c32.try_setting(d32).unwrap()).unwrap();
+        assert!(
+            (back - d32).abs() <= 4.0 * f32::EPSILON * 10.0,
+            "{d32}: {back}"
+        );
+    }
+    assert_eq!(c64.try_setting(10.01), Err(Error::OutsideCalibration));
+    assert_eq!(c64.try_drive(-2.3e-3), Err(Error::OutsideCalibration));
+}
