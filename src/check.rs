@@ -22,7 +22,7 @@
 //! use fourforce::check::{EnergyWindow, Verdict};
 //! // An invented 5 MeV alpha line, 1.5 m time-of-flight cell, window ±2 %.
 //! let window = EnergyWindow::try_around(Species::<f32>::ALPHA, 5.0e6, 0.02)?;
-//! // 96.696 ns over 1.5 m is 5 MeV (published-checks §3: beta = 0.051744192122256112).
+//! // 96.696 ns over 1.5 m is 5 MeV (mpmath, CODATA 2018: beta = 0.051744192122256112).
 //! assert!(window.check_flight_time(1.5, 96.696e-9).is_inside());
 //! assert!(matches!(window.check_flight_time(1.5, 90.0e-9), Verdict::High { .. }));
 //! assert!(matches!(window.check_flight_time(1.5, 4.0e-9), Verdict::Impossible(_)));
@@ -329,7 +329,7 @@ impl<T: Real> EnergyWindow<T> {
     /// # Examples
     /// ```
     /// use fourforce::{Error, Species, check::{EnergyWindow, Verdict}};
-    /// // 1 GeV proton: 3.8120493548822230 ns/m (published-checks §3); a 10 m baseline.
+    /// // 1 GeV proton: 3.8120493548822230 ns/m (mpmath, CODATA 2018); a 10 m baseline.
     /// let w = EnergyWindow::try_around(Species::<f64>::PROTON, 1.0e9, 0.001)?;
     /// let v = w.check_flight_time(10.0, 38.120_493_548_822_23e-9);
     /// assert!(v.is_inside() && v.deviation().unwrap().abs() < 1e-12);
@@ -353,7 +353,7 @@ impl<T: Real> EnergyWindow<T> {
     /// # Examples
     /// ```
     /// use fourforce::{Species, check::{EnergyWindow, Verdict}};
-    /// // A 250 MeV proton has B rho = 2.4321284387255044 T m (published-checks §3): on a 2 m
+    /// // A 250 MeV proton has B rho = 2.4321284387255044 T m (mpmath, CODATA 2018): on a 2 m
     /// // radius the centring field is 1.2160642 T.
     /// let w = EnergyWindow::try_around(Species::<f32>::PROTON, 250.0e6, 0.005)?;
     /// assert!(w.check_centring_field(1.216_064_2, 2.0).is_inside());

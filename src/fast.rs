@@ -14,7 +14,7 @@
 //! the fast path by calling these functions by name. Use it where 0.2 % is enough (displays,
 //! coarse interlocks, first guesses); keep [`Motion`](crate::Motion) for set points.
 //!
-//! Measured worst errors over a dense sweep against `f64` (every species constant, kinetic
+//! Promised bounds, checked over a dense sweep against `f64` (every species constant, kinetic
 //! energies from 1 meV to 1 PeV; `checks/tests/suite/firmware_fast.rs`), in `eps` = 2⁻²³ relative:
 //!
 //! | function | bound (eps) | bound (relative) |

@@ -48,9 +48,9 @@ impl<T: Real> FieldTensor<T> {
     ///
     /// `charge` is Q in units of e (with sign), `u` the four-velocity in units of c. For an
     /// unchecked four-velocity or field the result may overflow to infinity; see
-    /// [`try_four_force`](Self::try_four_force). Accuracy (measured, `f32`, 20 000 random cases up
-    /// to γ = 10⁴, fields from SI): each component within 1.5 eps × `γ|Q|(|E| + |β||cB|)`, and
-    /// `K·u` within 0.5 eps of that scale times `u⁰ + |u|`. Edges: zero field or zero charge give
+    /// [`try_four_force`](Self::try_four_force). Accuracy up to γ = 10⁴ (checked on random cases
+    /// in `f32`, fields from SI): each component within 1.6 eps × `γ|Q|(|E| + |β||cB|)`, and
+    /// `K·u` within 1 eps of that scale times `u⁰ + |u|`. Edges: zero field or zero charge give
     /// the zero vector.
     ///
     /// # Examples
@@ -100,7 +100,7 @@ impl<T: Real> FieldTensor<T> {
     /// ```
     /// use fourforce::{FieldTensor, FourVector, ThreeVector};
     /// // Electron at rest, E = 1 MV/m along x: K = (0, −1.602 176 634e-13, 0, 0) N
-    /// // (q(E + v × B) with CODATA 2018 e; published-checks §4).
+    /// // (q(E + v × B) with the CODATA 2018 e).
     /// let f = FieldTensor::try_from_fields(ThreeVector::new(1e6_f64, 0.0, 0.0), ThreeVector::ZERO)?;
     /// let k = f.try_four_force_newtons(-1.0, FourVector::AT_REST)?;
     /// assert!((k.space.x / -1.602_176_634e-13 - 1.0).abs() < 1e-15);
@@ -145,7 +145,7 @@ impl<T: Real> FieldTensor<T> {
     /// ```
     /// use fourforce::{FieldTensor, ThreeVector};
     /// // Proton at 0.6 c along x in B = 1 T along z: F = (0, −2.881 922 827 54e-11, 0) N
-    /// // (Jackson 3rd ed. §12.1, from memory; published-checks §4 [mp]).
+    /// // (Jackson, Classical Electrodynamics, 3rd ed., §12.1, from memory; value mpmath).
     /// let f = FieldTensor::try_from_fields(ThreeVector::ZERO, ThreeVector::new(0.0_f64, 0.0, 1.0))?;
     /// let v = ThreeVector::new(0.6 * 299_792_458.0, 0.0, 0.0);
     /// let force = f.try_three_force_newtons(1.0, v)?;
@@ -197,7 +197,7 @@ impl<T: Real> FieldTensor<T> {
     /// ```
     /// use fourforce::{FieldTensor, ThreeVector};
     /// // Proton at 0.6 c along x in E = 1 MV/m along x: 2.881 922 827 54e-5 W
-    /// // (Jackson 3rd ed. §12.1, from memory; published-checks §4 [mp]).
+    /// // (Jackson, Classical Electrodynamics, 3rd ed., §12.1, from memory; value mpmath).
     /// let f = FieldTensor::try_from_fields(ThreeVector::new(1e6_f64, 0.0, 0.0), ThreeVector::ZERO)?;
     /// let p = f.try_power_watts(1.0, ThreeVector::new(0.6 * 299_792_458.0, 0.0, 0.0))?;
     /// assert!((p / 2.881_922_827_54e-5 - 1.0).abs() < 1e-11);

@@ -20,13 +20,12 @@
 //!
 //! The promise: every quantity within 8 eps of the exact value (relative error, eps = `2⁻²³`
 //! for `f32`, `2⁻⁵²` for `f64`), for every species and every kinetic energy from 1 eV to
-//! 100 TeV, when the input is exact in the precision. The worst errors given in each item's
-//! documentation are measured two ways, and the larger is stated: against 50-digit mpmath
-//! references (`checks/tests/reference/`, CODATA 2018: the ten named species and three custom ions,
-//! 16 kinetic energies per decade, and states built from every other quantity), and, for `f32`,
-//! against the `f64` path on every 1024th `f32` input of each constructor for an electron, a
-//! proton and an alpha (`ci/exhaustive`). Worst over everything: 3.51 eps in `f32`, 2.32 eps in
-//! `f64`.
+//! 100 TeV, when the input is exact in the precision. It is checked two ways: against 50-digit
+//! mpmath references (`checks/tests/reference/`, CODATA 2018: the ten named species and three
+//! custom ions, 16 kinetic energies per decade, and states built from every other quantity), and,
+//! for `f32`, against the `f64` path on every 1024th `f32` input of each constructor for an
+//! electron, a proton and an alpha (`ci/exhaustive`). The measured figures are in
+//! `docs/accuracy.md`.
 //!
 //! Conditioning that no formula removes: a state built from `γ`, `β`, a speed or a flight time
 //! is exact for the value given, but an error already in that value (a rounded measurement) is
@@ -150,8 +149,8 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the kinetic energy `T` in eV.
     ///
-    /// The reference constructor: every quantity within 2.48 eps in `f32` and 2.32 eps in `f64`
-    /// (measured over 1 eV to 100 TeV, see [Precision](self#precision) and each accessor).
+    /// The reference constructor: every quantity within 8 eps from 1 eV to 100 TeV (the
+    /// [Precision](self#precision) promise).
     ///
     /// `γ − 1 = T/m`, `E = T + m`, `pc = √(T(T + 2m))`, `βγ = pc/m`, `β = pc/E`,
     /// `1 − β = (m/E)(m/(E + pc))`. `T = 0` is a particle at rest (`β = 0`, flight time
@@ -266,8 +265,8 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the total energy `E = T + m` in eV.
     ///
-    /// Accuracy, measured for inputs exact in the precision, states from 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): every quantity within 2.32 eps in `f32`, 1.78 eps in `f64` beyond the inherited term below.
+    /// Accuracy: every quantity within 8 eps of the exact state from 1 eV to 100 TeV, for an
+    /// input exact in the precision (the [Precision](self#precision) promise) beyond the inherited term below.
     ///
     /// `T = E − m` (exact in floating point for `E ≤ 2m`), then as
     /// [`try_from_kinetic_energy`](Self::try_from_kinetic_energy), keeping `γ = E/m`.
@@ -305,8 +304,8 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the Lorentz factor `γ`.
     ///
-    /// Accuracy, measured for inputs exact in the precision, states from 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): every quantity within 1.95 eps in `f32`, 1.13 eps in `f64`.
+    /// Accuracy: every quantity within 8 eps of the exact state from 1 eV to 100 TeV, for an
+    /// input exact in the precision (the [Precision](self#precision) promise).
     ///
     /// `γ − 1` (exact in floating point for `γ ≤ 2`), `βγ = √((γ − 1)(γ + 1))`, `β = βγ/γ`,
     /// `1 − β = 1/(γ(γ + βγ))`, `T = (γ − 1) m`. Exact for the `γ` given; an error already in
@@ -343,8 +342,8 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from `β = v/c`.
     ///
-    /// Accuracy, measured for inputs exact in the precision, states from 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): every quantity within 2.66 eps in `f32`, 1.70 eps in `f64`.
+    /// Accuracy: every quantity within 8 eps of the exact state from 1 eV to 100 TeV, for an
+    /// input exact in the precision (the [Precision](self#precision) promise).
     ///
     /// `d = 1 − β² = (1 − β)(1 + β)` (with `1 − β` exact in floating point for `β ≥ 1/2`, and
     /// `1 − β·β` below), `γ = 1/√d`, `γ − 1 = β²/(√d + d)`, `βγ = β γ`: no cancellation
@@ -420,8 +419,8 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from `βγ = pc/m` (the spatial part of the four-velocity, in units of c).
     ///
-    /// Accuracy, measured for inputs exact in the precision, states from 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): every quantity within 2.91 eps in `f32`, 1.82 eps in `f64`.
+    /// Accuracy: every quantity within 8 eps of the exact state from 1 eV to 100 TeV, for an
+    /// input exact in the precision (the [Precision](self#precision) promise).
     ///
     /// `γ = √(1 + (βγ)²)`, `γ − 1 = βγ · βγ/(γ + 1)`, `β = βγ/γ`, `1 − β = 1/(γ(γ + βγ))`.
     /// Well conditioned everywhere (condition ≤ 1 for every quantity).
@@ -451,8 +450,8 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the momentum `pc` in eV (momentum in eV/c).
     ///
-    /// Accuracy, measured for inputs exact in the precision, states from 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): every quantity within 2.77 eps in `f32`, 1.90 eps in `f64`.
+    /// Accuracy: every quantity within 8 eps of the exact state from 1 eV to 100 TeV, for an
+    /// input exact in the precision (the [Precision](self#precision) promise).
     ///
     /// `E = √((pc)² + m²)`, `T = pc · pc/(E + m)`, `β = pc/E`, `1 − β = (m/E)(m/(E + pc))`.
     /// Well conditioned everywhere.
@@ -533,8 +532,8 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the magnetic rigidity `Bρ = p/q` in T m.
     ///
-    /// Accuracy, measured for inputs exact in the precision, states from 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): every quantity within 3.51 eps in `f32`, 1.70 eps in `f64`.
+    /// Accuracy: every quantity within 8 eps of the exact state from 1 eV to 100 TeV, for an
+    /// input exact in the precision (the [Precision](self#precision) promise).
     ///
     /// `pc [eV] = Bρ · c · |Q|` (with `c = C_HI + C_LO` exact and the product with `C_HI` exact,
     /// so `pc` carries one rounding), then as
@@ -569,8 +568,8 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the electric rigidity `Eρ = pv/q` in V.
     ///
-    /// Accuracy, measured for inputs exact in the precision, states from 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): every quantity within 3.01 eps in `f32`, 1.67 eps in `f64`.
+    /// Accuracy: every quantity within 8 eps of the exact state from 1 eV to 100 TeV, for an
+    /// input exact in the precision (the [Precision](self#precision) promise).
     ///
     /// With `w = Eρ · |Q| = pc·β = (pc)²/E`, solved without cancellation:
     /// `E = (w + √(w² + 4m²))/2`, `pc = √(w E)`, `T = w E/(E + m)`. Well conditioned
@@ -609,8 +608,8 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the speed `v` in m/s.
     ///
-    /// Accuracy, measured for inputs exact in the precision, states from 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): every quantity within 3.51 eps in `f32`, 1.80 eps in `f64`.
+    /// Accuracy: every quantity within 8 eps of the exact state from 1 eV to 100 TeV, for an
+    /// input exact in the precision (the [Precision](self#precision) promise).
     ///
     /// `c − v = (C_HI − v) + C_LO` (exact near `c`: `c` is held as an exact two-part sum, so
     /// `f32` is not 10 m/s off), `1 − β = (c − v)/c`, `β = v/c`, then as
@@ -651,8 +650,8 @@ impl<T: Real> Motion<T> {
 
     /// Builds the state from the time of flight `t` (s) over a length `L` (m).
     ///
-    /// Accuracy, measured for inputs exact in the precision, states from 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): every quantity within 3.33 eps in `f32`, 1.57 eps in `f64`.
+    /// Accuracy: every quantity within 8 eps of the exact state from 1 eV to 100 TeV, for an
+    /// input exact in the precision (the [Precision](self#precision) promise).
     ///
     /// `u = 1/β − 1 = (c t − L)/L`, where `c t − L` is formed from the exact product `c t`
     /// (Dekker's two-product, no fused multiply-add needed), then `β = 1/(1 + u)`,
@@ -788,8 +787,8 @@ impl<T: Real> Motion<T> {
 
     /// Total energy `E = T + m` in eV.
     ///
-    /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): worst 0.69 eps in `f32`, 0.64 eps in `f64`.
+    /// Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Examples
     /// ```
@@ -806,8 +805,8 @@ impl<T: Real> Motion<T> {
 
     /// Lorentz factor `γ = E/m = 1 + T/m`.
     ///
-    /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): worst 1.19 eps in `f32`, 0.87 eps in `f64`.
+    /// Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Examples
     /// ```
@@ -824,8 +823,8 @@ impl<T: Real> Motion<T> {
 
     /// `γ − 1 = T/m`, held without cancellation (never formed from a stored `γ`).
     ///
-    /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): worst 0.76 eps in `f32`, 0.67 eps in `f64`.
+    /// Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Examples
     /// ```
@@ -845,8 +844,8 @@ impl<T: Real> Motion<T> {
     /// [`one_minus_beta`](Self::one_minus_beta) there).
     ///
     /// Computed as `pc/E`, or as `1 − (1 − β)` once `1 − β < 1/4` (exact to half an ulp there,
-    /// and monotonic). Accuracy, measured from the kinetic energy over 1 eV to
-    /// 100 TeV (see [Precision](self#precision)): worst 1.66 eps in `f32`, 1.12 eps in `f64`.
+    /// and monotonic). Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Examples
     /// ```
@@ -863,8 +862,8 @@ impl<T: Real> Motion<T> {
 
     /// `1 − β = m²/(E(E + pc))`, held without cancellation.
     ///
-    /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): worst 2.48 eps in `f32`, 2.32 eps in `f64`.
+    /// Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Examples
     /// ```
@@ -882,8 +881,8 @@ impl<T: Real> Motion<T> {
 
     /// `βγ = pc/m`, the spatial four-velocity in units of c.
     ///
-    /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): worst 1.53 eps in `f32`, 1.03 eps in `f64`.
+    /// Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Examples
     /// ```
@@ -924,8 +923,8 @@ impl<T: Real> Motion<T> {
 
     /// Momentum as `pc` in eV (so the momentum in eV/c): `√(T(T + 2m))`.
     ///
-    /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): worst 1.04 eps in `f32`, 0.78 eps in `f64`.
+    /// Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Examples
     /// ```
@@ -959,8 +958,8 @@ impl<T: Real> Motion<T> {
     ///
     /// One multiplication by the folded constant `e/c = 5.344 286e-28` (exact `c` and `e`, SI
     /// 2019), so nothing is squared in SI units: the 5.4e-25 kg m/s of a 1 eV electron stays at
-    /// full precision in `f32`. Accuracy, measured from the kinetic energy over 1 eV
-    /// to 100 TeV (see [Precision](self#precision)): worst 1.16 eps in `f32`, 1.15 eps in `f64`.
+    /// full precision in `f32`. Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Examples
     /// ```
@@ -979,8 +978,8 @@ impl<T: Real> Motion<T> {
 
     /// Speed `v = β c` in m/s, with `c = C_HI + C_LO` (exact in `f32` too).
     ///
-    /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): worst 1.95 eps in `f32`, 1.41 eps in `f64`.
+    /// Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Examples
     /// ```
@@ -999,8 +998,8 @@ impl<T: Real> Motion<T> {
     ///
     /// `(E/c)/pc`, or `(1 + (1 − β)/β)/c` above `β = 3/4` (monotonic in the energy there);
     /// finite for every moving particle whose `1/(βc)` fits the precision.
-    /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): worst 1.86 eps in `f32`, 1.34 eps in `f64`.
+    /// Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Examples
     /// ```
@@ -1049,8 +1048,8 @@ impl<T: Real> Motion<T> {
     /// Magnetic rigidity `Bρ = p/|q| = pc/(c |Q|)` in T m (positive whatever the sign of the
     /// charge).
     ///
-    /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): worst 1.54 eps in `f32`, 1.14 eps in `f64`.
+    /// Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise).
     ///
     /// # Errors
     /// [`Error::ZeroCharge`] for a neutral species; [`Error::Overflow`] when the rigidity does
@@ -1074,9 +1073,8 @@ impl<T: Real> Motion<T> {
     ///
     /// That form adds two positive terms (no cancellation) and uses `T` directly; it is `2T/|Q|`
     /// at low energy and `T/|Q|` at high energy.
-    /// Accuracy, measured from the kinetic energy over 1 eV to 100 TeV (see
-    /// [Precision](self#precision)): worst 0.99 eps in `f32`, 0.95 eps in `f64` (the plain `pc·β/Q` measured
-    /// 2.7 eps, published-checks §5).
+    /// Accuracy: within 8 eps from 1 eV to 100 TeV (the [Precision](self#precision)
+    /// promise); the plain `pc·β/Q` is up to 2.7 eps off where this form stays below 1 eps.
     ///
     /// # Errors
     /// [`Error::ZeroCharge`] for a neutral species; [`Error::Overflow`] when the rigidity does

@@ -491,7 +491,7 @@ mod tests {
 
     #[test]
     fn f32_constants_round_once() {
-        // The nearest f32 values listed in shared/reference/published-checks.md §1 (CODATA 2018).
+        // The nearest f32 values to the CODATA 2018 rest energies (rounded with mpmath).
         assert_eq!(f32::ELECTRON_REST_ENERGY, 510_998.94_f32);
         assert_eq!(f64::from(f32::PROTON_REST_ENERGY), 938_272_064.0);
     }

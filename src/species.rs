@@ -331,7 +331,7 @@ mod tests {
 
     #[test]
     fn bare_carbon_matches_published_rest_energy() {
-        // shared/reference/published-checks.md §2: 12 m_u c^2 - 6 m_e c^2 + B_e = 11174.864265448
+        // 12 m_u c^2 - 6 m_e c^2 + B_e = 11174.864265448
         // MeV, CODATA 2018 with B_e = 1030.108 eV (NIST ASD, from memory).
         let c6 = Species::<f64>::try_from_atom(12.0, 6, 1030.108).unwrap();
         assert!((c6.rest_energy() / 11_174_864_265.448 - 1.0).abs() < 2e-15);

@@ -181,7 +181,7 @@ impl<T: Real> SteeringSetup<T> {
     /// let e = Motion::try_from_kinetic_energy(Species::ELECTRON, 1.0e6)?;
     /// // 10 mm off would need 23.7 uT m at once; the rate limit allows 100 uT m, fine here.
     /// let cmd = setup.try_next_setting(&e, 10.0e-3, 0.0, 0.0)?;
-    /// // negative charge: the sign flips (B rho 4.7431804486e-3 T m, published-checks §3)
+    /// // negative charge: the sign flips (B rho 4.7431804486e-3 T m, mpmath, CODATA 2018)
     /// assert!((cmd.setting_tm() - 4.743_180_448_575_933e-3 * 10.0e-3 / 2.0).abs() < 1e-15);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
