@@ -19,8 +19,8 @@
 //! followed by a rotation (the Thomas–Wigner rotation). [`Boost::then`] therefore returns a
 //! [`LorentzTransform`], a general 4×4 transformation `Λ^μ_ν` that applies to vectors,
 //! covectors and fields, inverts exactly (`Λ⁻¹ = g Λᵀ g`), and splits into
-//! [`LorentzTransform::try_boost_part`] and [`LorentzTransform::rotation_part`] with
-//! `Λ = rotation_part · boost_part`.
+//! [`LorentzTransform::try_boost_part`] and [`LorentzTransform::try_rotation_part`] with
+//! `Λ = R·B` (first the boost B, then the rotation R).
 //!
 //! # For firmware authors
 //! A boost of a four-vector costs 8 multiplications, of the field tensor 30; the
@@ -522,8 +522,11 @@ impl<T: Real> LorentzTransform<T> {
 
     /// Builds a transformation from its matrix `Λ^μ_ν` (rows μ), without checks.
     ///
-    /// The matrix should satisfy `Λᵀ g Λ = g`; [`metric_deviation`](Self::metric_deviation)
-    /// measures how far it is from that.
+    /// Trusts its input: the matrix should satisfy `Λᵀ g Λ = g`, and
+    /// [`metric_deviation`](Self::metric_deviation) measures how far it is from that (`+∞` for a
+    /// non-finite entry, so that it fails any tolerance). A NaN or infinite entry is carried into
+    /// the results of [`apply`](Self::apply) and the other infallible methods;
+    /// [`try_boost_part`](Self::try_boost_part) refuses it with [`Error::NonFinite`].
     ///
     /// # Examples
     /// ```

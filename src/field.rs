@@ -139,8 +139,12 @@ impl<T: Real> FieldTensor<T> {
 
     /// Builds the tensor from E (V/m) and cB (V/m), without checks.
     ///
-    /// For `const` tables of trusted fields; outside [`limit`](Self::limit), the invariants may
-    /// not be finite. See [`try_from_scaled`](Self::try_from_scaled) and
+    /// For `const` tables of trusted fields and for field sources in the pushers' hot loop: it
+    /// trusts its inputs. Outside [`limit`](Self::limit) the invariants may not be finite; a NaN
+    /// or infinite component is kept, the infallible methods carry it into their results, the
+    /// pushers refuse it ([`Error::NonFinite`], particle unchanged) and
+    /// [`try_four_force`](Self::try_four_force) refuses what it produces. For fields from outside,
+    /// use [`try_from_scaled`](Self::try_from_scaled) or
     /// [`try_from_fields`](Self::try_from_fields).
     ///
     /// # Examples

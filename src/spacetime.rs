@@ -151,6 +151,11 @@ impl<T: Real> FourVector<T> {
 
     /// Builds `(x⁰, x¹, x², x³)` without checks.
     ///
+    /// Trusts its inputs (for `const` values and numbers already checked): a NaN or infinite
+    /// component is kept, the infallible arithmetic of the type carries it into its results
+    /// (IEEE rules), and every `try_` function given the four-vector refuses it with
+    /// [`Error::NonFinite`]. For numbers from outside, use [`try_new`](Self::try_new).
+    ///
     /// # Examples
     /// ```
     /// use fourforce::FourVector;
@@ -166,7 +171,8 @@ impl<T: Real> FourVector<T> {
         }
     }
 
-    /// Builds `(x⁰, x)` from a time part and a three-vector, without checks.
+    /// Builds `(x⁰, x)` from a time part and a three-vector, without checks (as
+    /// [`new`](Self::new)).
     ///
     /// # Examples
     /// ```
@@ -433,7 +439,7 @@ impl<T: Real> FourVector<T> {
         [self.time, self.space.x, self.space.y, self.space.z]
     }
 
-    /// Builds a four-vector from `[x⁰, x¹, x², x³]`, without checks.
+    /// Builds a four-vector from `[x⁰, x¹, x², x³]`, without checks (as [`new`](Self::new)).
     ///
     /// # Examples
     /// ```
@@ -461,6 +467,11 @@ impl<T: Real> Covector<T> {
 
     /// Builds `(k₀, k₁, k₂, k₃)` without checks.
     ///
+    /// Trusts its inputs (for `const` values and numbers already checked): a NaN or infinite
+    /// component is kept, the infallible arithmetic of the type carries it into its results
+    /// (IEEE rules), and every `try_` function given the covector refuses it with
+    /// [`Error::NonFinite`]. For numbers from outside, use [`try_new`](Self::try_new).
+    ///
     /// # Examples
     /// ```
     /// use fourforce::Covector;
@@ -476,7 +487,8 @@ impl<T: Real> Covector<T> {
         }
     }
 
-    /// Builds `(k₀, k)` from a time part and a three-vector of lower components, without checks.
+    /// Builds `(k₀, k)` from a time part and a three-vector of lower components, without checks
+    /// (as [`new`](Self::new)).
     ///
     /// # Examples
     /// ```

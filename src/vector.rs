@@ -51,6 +51,11 @@ impl<T: Real> ThreeVector<T> {
 
     /// Builds `(x, y, z)` without checks.
     ///
+    /// Trusts its inputs (for `const` values and numbers already checked): a NaN or infinite
+    /// component is kept, the infallible arithmetic of the type carries it into its results
+    /// (IEEE rules), and every `try_` function given the vector refuses it with
+    /// [`Error::NonFinite`]. For numbers from outside, use [`try_new`](Self::try_new).
+    ///
     /// # Examples
     /// ```
     /// use fourforce::ThreeVector;

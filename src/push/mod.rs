@@ -9,7 +9,7 @@
 //! ```
 //!
 //! with `Q/mc²` in 1/V ([`Species::charge_over_rest_energy`]), `E` in V/m and `cB` in V/m (the
-//! two halves of a [`FieldTensor`](crate::FieldTensor)): every factor is of order one in `f32`.
+//! two halves of a [`FieldTensor`]): every factor is of order one in `f32`.
 //! Over one step `Δt` the pushers use the two dimensionless half-step factors
 //! `ε = (Q c Δt / 2mc²) E` and `τ = (Q c Δt / 2mc²) cB`, one factor ([`StepFactors::kick`])
 //! precomputed per step and applied once to each half of the field.
