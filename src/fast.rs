@@ -1,10 +1,11 @@
 //! A fast, coarse `f32` path through micromath's square-root estimate (feature `micromath`).
 //!
-//! Every square root of the crate goes through `libm::sqrtf`, correctly rounded, which is a
-//! software routine of about 80 instructions on a Cortex-M4F. This module offers separately named
-//! functions that replace it with micromath's bit-level estimate (one integer add and shift,
-//! always high, by at most 6.07 %) refined by one Newton step `y ← (y + x / y) / 2`, which brings
-//! the error to at most 1.74e-3 relative (still high) for about a tenth of the instructions.
+//! Every square root of the crate is correctly rounded: `libm::sqrtf`, a software routine on a chip
+//! without an FPU square root (about 575 instructions on a Cortex-M0), or the FPU's `vsqrt.f32` on
+//! hard-float Arm targets (on a Cortex-M4F the exact path is then already the cheaper one). This
+//! module offers separately named functions that replace it with micromath's bit-level estimate
+//! (one integer add and shift, always high, by at most 6.07 %) refined by one Newton step
+//! `y ← (y + x / y) / 2`, which brings the error to at most 1.74e-3 relative (still high).
 //! Everything else (the arithmetic, the formulas that avoid cancellation) is the same as in
 //! [`Motion`](crate::Motion).
 //!

@@ -175,6 +175,7 @@ impl<T: Real> FieldTensor<T> {
     /// let huge = ThreeVector::new(1e20_f32, 0.0, 0.0);
     /// assert_eq!(FieldTensor::try_from_scaled(huge, cb), Err(Error::Overflow));
     /// ```
+    #[inline(always)]
     pub fn try_from_scaled(e: ThreeVector<T>, cb: ThreeVector<T>) -> Result<Self, Error> {
         check_field(e)?;
         check_field(cb)?;
@@ -197,6 +198,7 @@ impl<T: Real> FieldTensor<T> {
     /// assert!((f.c_b().z - 2997.924_58).abs() < 1e-12);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
+    #[inline(always)]
     pub fn try_from_fields(
         e_v_per_m: ThreeVector<T>,
         b_tesla: ThreeVector<T>,
@@ -535,7 +537,7 @@ fn c_times<T: Real>(b: ThreeVector<T>) -> ThreeVector<T> {
 
 /// `c·B` of a finite `B`; [`Error::Overflow`] when it does not fit the precision (so that a
 /// finite field too large is refused as too large, not as non-finite).
-#[inline]
+#[inline(always)]
 fn c_b_checked<T: Real>(b: ThreeVector<T>) -> Result<ThreeVector<T>, Error> {
     let cb = c_times(b);
     if cb.is_finite() {
@@ -556,6 +558,7 @@ fn field_limit<T: Real>() -> T {
 }
 
 /// Checks that every component is finite and within [`FieldTensor::limit`].
+#[inline]
 fn check_field<T: Real>(v: ThreeVector<T>) -> Result<(), Error> {
     if !v.is_finite() {
         return Err(Error::NonFinite);

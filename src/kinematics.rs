@@ -916,6 +916,7 @@ impl<T: Real> Motion<T> {
     /// assert!((u.norm_squared() - 1.0).abs() < 4.0 * f64::EPSILON);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
+    #[inline(always)]
     pub fn try_four_velocity(&self, direction: ThreeVector<T>) -> Result<FourVector<T>, Error> {
         let n = direction.try_unit()?;
         Ok(FourVector::from_parts(self.gamma, n * self.beta_gamma))

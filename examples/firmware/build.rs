@@ -25,7 +25,9 @@ fn readings(machine: &Machine<f64>) -> Vec<Reading<f32>> {
     let flight_time = |t_ev: f64| motion(t_ev).flight_time(machine.flight_base_m);
     let drift = machine.steering.drift_m();
     let readback = |t_ev: f64, offset: f64| {
-        let brho = motion(t_ev).try_magnetic_rigidity().expect("a charged beam");
+        let brho = motion(t_ev)
+            .try_magnetic_rigidity()
+            .expect("a charged beam");
         test_readback(brho, species.charge().signum(), offset, drift) as f32
     };
     for i in 0..CYCLES {

@@ -167,6 +167,7 @@ impl<T: Real> Particle<T> {
     /// assert_eq!(p.gamma(), m.gamma());
     /// # Ok::<(), fourforce::Error>(())
     /// ```
+    #[inline(always)]
     pub fn try_from_motion(
         motion: &Motion<T>,
         direction: ThreeVector<T>,
@@ -398,6 +399,7 @@ impl<T: Real> StepFactors<T> {
     /// use fourforce::push::StepFactors;
     /// assert_eq!(StepFactors::try_new(Species::<f32>::ELECTRON, 0.0).err(), Some(Error::NonPositiveLength));
     /// ```
+    #[inline(always)]
     pub fn try_new(species: Species<T>, dt_s: T) -> Result<Self, Error> {
         // The species' rest energy (≥ 1 eV) and charge are finite: its invariant.
         let dt = dt_s;
@@ -575,6 +577,7 @@ pub trait Pusher<T: Real>: Sized {
     /// assert_eq!(pusher.factors().dt(), 1.0e-12);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
+    #[inline(always)]
     fn try_new(species: Species<T>, dt_s: T) -> Result<Self, Error> {
         StepFactors::try_new(species, dt_s).map(Self::from_factors)
     }

@@ -225,16 +225,17 @@ pub fn cycle<T: Real>(
         reading.readback_tm,
     )?;
     let corrector_tm = command.setting_tm();
-    // 4. Four-force on the beam inside the corrector.
+    // 4. Four-force on the beam inside the corrector; the particle at the corrector's entrance
+    // carries the four-velocity (γ, γβ ẑ) (one normalisation of the axis for both steps).
     let field = corrector_field(machine, corrector_tm)?;
+    let mut particle = Particle::try_from_motion(&motion, beam_axis(), ThreeVector::ZERO)?;
     let charge = machine.window.species().charge();
-    let force = field.try_four_force(charge, motion.try_four_velocity(beam_axis())?)?;
+    let force = field.try_four_force(charge, particle.four_velocity())?;
     // 5. One push step through the corrector, its length in one step.
     let pusher = Boris::try_new(
         machine.window.species(),
         machine.corrector_length_m / motion.speed(),
     )?;
-    let mut particle = Particle::try_from_motion(&motion, beam_axis(), ThreeVector::ZERO)?;
     pusher.try_step(&mut particle, &field)?;
     let u = particle.beta_gamma();
     Ok(Cycle {
