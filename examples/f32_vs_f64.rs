@@ -69,7 +69,7 @@ fn main() -> ExitCode {
                 let reading32 = Reading {
                     flight_time_s: m.flight_time(machine64.flight_base_m) as f32,
                     offset_m: offset as f32,
-                    readback_tm: test_readback(brho, sign, offset, machine64.steering.drift_m())
+                    readback_tm: test_readback(brho, sign, offset, machine64.steering.drift())
                         as f32,
                 };
                 let reading64 = Reading {

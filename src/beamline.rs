@@ -1149,12 +1149,12 @@ impl<T: Real, const N: usize> BeamLine<T, N> {
                 (
                     Plane::Horizontal,
                     aperture.half_width_m,
-                    [before.size_x_m(), after.size_x_m()],
+                    [before.size_x(), after.size_x()],
                 ),
                 (
                     Plane::Vertical,
                     aperture.half_height_m,
-                    [before.size_y_m(), after.size_y_m()],
+                    [before.size_y(), after.size_y()],
                 ),
             ] {
                 let size = sizes[0].max(sizes[1]);
@@ -1201,7 +1201,7 @@ impl<T: Real, const N: usize> BeamLine<T, N> {
 /// let (_, after, reference) = line.envelopes(&p, beam).next().unwrap()?;
 /// assert_eq!(reference.kinetic_energy(), 2.0e6);
 /// // adiabatic damping: the emittance falls by p0/p1 (about 1/sqrt 2 here)
-/// assert!((after.emittance_x_m() / 1.0e-6 - 0.7072).abs() < 1e-3);
+/// assert!((after.emittance_x() / 1.0e-6 - 0.7072).abs() < 1e-3);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Debug)]

@@ -157,8 +157,11 @@ impl<T: Real> FieldTensor<T> {
     /// ```
     #[must_use]
     #[inline]
-    pub const fn from_scaled(e: ThreeVector<T>, cb: ThreeVector<T>) -> Self {
-        Self { e, cb }
+    pub const fn from_scaled(e_v_per_m: ThreeVector<T>, cb_v_per_m: ThreeVector<T>) -> Self {
+        Self {
+            e: e_v_per_m,
+            cb: cb_v_per_m,
+        }
     }
 
     /// Builds the tensor from E (V/m) and cB (V/m), checking both.
@@ -176,10 +179,13 @@ impl<T: Real> FieldTensor<T> {
     /// assert_eq!(FieldTensor::try_from_scaled(huge, cb), Err(Error::Overflow));
     /// ```
     #[inline(always)]
-    pub fn try_from_scaled(e: ThreeVector<T>, cb: ThreeVector<T>) -> Result<Self, Error> {
-        check_field(e)?;
-        check_field(cb)?;
-        Ok(Self::from_scaled(e, cb))
+    pub fn try_from_scaled(
+        e_v_per_m: ThreeVector<T>,
+        cb_v_per_m: ThreeVector<T>,
+    ) -> Result<Self, Error> {
+        check_field(e_v_per_m)?;
+        check_field(cb_v_per_m)?;
+        Ok(Self::from_scaled(e_v_per_m, cb_v_per_m))
     }
 
     /// Builds the tensor from E in V/m and B in T.
@@ -199,14 +205,11 @@ impl<T: Real> FieldTensor<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[inline(always)]
-    pub fn try_from_fields(
-        e_v_per_m: ThreeVector<T>,
-        b_tesla: ThreeVector<T>,
-    ) -> Result<Self, Error> {
-        if !b_tesla.is_finite() {
+    pub fn try_from_fields(e_v_per_m: ThreeVector<T>, b_t: ThreeVector<T>) -> Result<Self, Error> {
+        if !b_t.is_finite() {
             return Err(Error::NonFinite);
         }
-        Self::try_from_scaled(e_v_per_m, c_b_checked(b_tesla)?)
+        Self::try_from_scaled(e_v_per_m, c_b_checked(b_t)?)
     }
 
     /// True when every component is finite.
@@ -453,15 +456,15 @@ impl<T: Real> FieldTensor<T> {
     /// ```
     pub fn try_scalar_invariant_of(
         e_v_per_m: ThreeVector<T>,
-        b_tesla: ThreeVector<T>,
+        b_t: ThreeVector<T>,
     ) -> Result<T, Error> {
-        if !b_tesla.is_finite() {
+        if !b_t.is_finite() {
             return Err(Error::NonFinite);
         }
         check_field(e_v_per_m)?;
-        check_field(c_b_checked(b_tesla)?)?;
+        check_field(c_b_checked(b_t)?)?;
         let mut acc = Accumulator::new();
-        for (b, e) in b_tesla.to_array().into_iter().zip(e_v_per_m.to_array()) {
+        for (b, e) in b_t.to_array().into_iter().zip(e_v_per_m.to_array()) {
             // cB = hi + lo exactly (to far below the last bit of hi): hi + pe + C_LO·B.
             let (hi, pe) = crate::compensated::two_prod(T::C_HI, b);
             let lo = pe + T::C_LO * b;
@@ -514,15 +517,15 @@ impl<T: Real> FieldTensor<T> {
     /// ```
     pub fn try_pseudoscalar_invariant_of(
         e_v_per_m: ThreeVector<T>,
-        b_tesla: ThreeVector<T>,
+        b_t: ThreeVector<T>,
     ) -> Result<T, Error> {
-        if !b_tesla.is_finite() {
+        if !b_t.is_finite() {
             return Err(Error::NonFinite);
         }
         check_field(e_v_per_m)?;
-        check_field(c_b_checked(b_tesla)?)?;
+        check_field(c_b_checked(b_t)?)?;
         let mut acc = Accumulator::new();
-        for (b, e) in b_tesla.to_array().into_iter().zip(e_v_per_m.to_array()) {
+        for (b, e) in b_t.to_array().into_iter().zip(e_v_per_m.to_array()) {
             acc.add_product(e, b);
         }
         Ok(acc.value())

@@ -388,7 +388,7 @@ enum Plane {
 /// ```
 /// use fourforce::orbit::Monitor;
 /// let m = Monitor::try_new(5.0e-3_f32, 1.0)?;
-/// assert_eq!((m.range_m(), m.weight()), (5.0e-3, 1.0));
+/// assert_eq!((m.range(), m.weight()), (5.0e-3, 1.0));
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -427,11 +427,11 @@ impl<T: Real> Monitor<T> {
     /// # Examples
     /// ```
     /// use fourforce::orbit::Monitor;
-    /// assert_eq!(Monitor::try_new(2.0e-3_f64, 1.0)?.range_m(), 2.0e-3);
+    /// assert_eq!(Monitor::try_new(2.0e-3_f64, 1.0)?.range(), 2.0e-3);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
-    pub const fn range_m(&self) -> T {
+    pub const fn range(&self) -> T {
         self.range_m
     }
 

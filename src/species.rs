@@ -178,17 +178,17 @@ impl<T: Real> Species<T> {
     /// assert_eq!(Species::try_new(-1.0_f32, 1.0), Err(Error::NonPositiveMass));
     /// assert_eq!(Species::try_new(1.0e-20_f32, 1.0), Err(Error::RestEnergyTooSmall));
     /// ```
-    pub fn try_new(rest_energy: T, charge: T) -> Result<Self, Error> {
-        if !rest_energy.is_finite() || !charge.is_finite() {
+    pub fn try_new(rest_energy_ev: T, charge: T) -> Result<Self, Error> {
+        if !rest_energy_ev.is_finite() || !charge.is_finite() {
             return Err(Error::NonFinite);
         }
-        if rest_energy <= T::ZERO {
+        if rest_energy_ev <= T::ZERO {
             return Err(Error::NonPositiveMass);
         }
-        if rest_energy < Self::MIN_REST_ENERGY {
+        if rest_energy_ev < Self::MIN_REST_ENERGY {
             return Err(Error::RestEnergyTooSmall);
         }
-        Ok(Self::constant(rest_energy, charge))
+        Ok(Self::constant(rest_energy_ev, charge))
     }
 
     /// Builds a positive ion from the neutral atom's mass with `electrons_removed` electrons taken
@@ -220,14 +220,14 @@ impl<T: Real> Species<T> {
     pub fn try_from_atom(
         atomic_mass_u: T,
         electrons_removed: u32,
-        binding_energy: T,
+        binding_energy_ev: T,
     ) -> Result<Self, Error> {
-        if !atomic_mass_u.is_finite() || !binding_energy.is_finite() {
+        if !atomic_mass_u.is_finite() || !binding_energy_ev.is_finite() {
             return Err(Error::NonFinite);
         }
         let n = T::from_u32(electrons_removed);
         let rest = atomic_mass_u * T::ATOMIC_MASS_UNIT_ENERGY - n * T::ELECTRON_REST_ENERGY
-            + binding_energy;
+            + binding_energy_ev;
         if !rest.is_finite() {
             return Err(Error::Overflow);
         }
@@ -300,17 +300,17 @@ macro_rules! const_constructor {
             /// assert_eq!(ION.rest_energy(), 40.0e9);
             #[doc = concat!("assert_eq!(Species::<", stringify!($t), ">::try_new_const(0.0, 1.0), Err(Error::NonPositiveMass));")]
             /// ```
-            pub const fn try_new_const(rest_energy: $t, charge: $t) -> Result<Self, Error> {
-                if !rest_energy.is_finite() || !charge.is_finite() {
+            pub const fn try_new_const(rest_energy_ev: $t, charge: $t) -> Result<Self, Error> {
+                if !rest_energy_ev.is_finite() || !charge.is_finite() {
                     return Err(Error::NonFinite);
                 }
-                if rest_energy <= 0.0 {
+                if rest_energy_ev <= 0.0 {
                     return Err(Error::NonPositiveMass);
                 }
-                if rest_energy < 1.0 {
+                if rest_energy_ev < 1.0 {
                     return Err(Error::RestEnergyTooSmall);
                 }
-                Ok(Self::constant(rest_energy, charge))
+                Ok(Self::constant(rest_energy_ev, charge))
             }
         }
     };

@@ -39,7 +39,7 @@
 //! let beam = Motion::try_from_kinetic_energy(Species::DEUTERON, 2.0e6)?;
 //! let cmd = setup.try_next_setting(&beam, 1.0e-3, 0.0, 0.0)?; // beam 1 mm off, corrector at 0
 //! // full correction: -0.28900 T m * 1e-3 / 3 = -96.3 uT m; half of it with g = 0.5
-//! assert!((cmd.setting_tm() + 0.5 * 0.289 * 1.0e-3 / 3.0).abs() < 1e-7);
+//! assert!((cmd.setting() + 0.5 * 0.289 * 1.0e-3 / 3.0).abs() < 1e-7);
 //! assert!(!cmd.rate_limited() && !cmd.saturated());
 //! # Ok::<(), fourforce::Error>(())
 //! ```
@@ -111,12 +111,12 @@ impl<T: Real> SteeringSetup<T> {
     /// # Examples
     /// ```
     /// use fourforce::steer::SteeringSetup;
-    /// assert_eq!(SteeringSetup::try_new(2.5_f32, 0.4, 1e-2, 1e-3)?.drift_m(), 2.5);
+    /// assert_eq!(SteeringSetup::try_new(2.5_f32, 0.4, 1e-2, 1e-3)?.drift(), 2.5);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
     #[inline]
-    pub const fn drift_m(&self) -> T {
+    pub const fn drift(&self) -> T {
         self.drift_m
     }
 
@@ -139,12 +139,12 @@ impl<T: Real> SteeringSetup<T> {
     /// # Examples
     /// ```
     /// use fourforce::steer::SteeringSetup;
-    /// assert_eq!(SteeringSetup::try_new(2.5_f32, 0.4, 1e-2, 1e-3)?.max_integrated_field_tm(), 1e-2);
+    /// assert_eq!(SteeringSetup::try_new(2.5_f32, 0.4, 1e-2, 1e-3)?.max_integrated_field(), 1e-2);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
     #[inline]
-    pub const fn max_integrated_field_tm(&self) -> T {
+    pub const fn max_integrated_field(&self) -> T {
         self.max_integrated_field_tm
     }
 
@@ -153,12 +153,12 @@ impl<T: Real> SteeringSetup<T> {
     /// # Examples
     /// ```
     /// use fourforce::steer::SteeringSetup;
-    /// assert_eq!(SteeringSetup::try_new(2.5_f32, 0.4, 1e-2, 1e-3)?.max_change_tm(), 1e-3);
+    /// assert_eq!(SteeringSetup::try_new(2.5_f32, 0.4, 1e-2, 1e-3)?.max_change(), 1e-3);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
     #[inline]
-    pub const fn max_change_tm(&self) -> T {
+    pub const fn max_change(&self) -> T {
         self.max_change_tm
     }
 
@@ -182,7 +182,7 @@ impl<T: Real> SteeringSetup<T> {
     /// // 10 mm off would need 23.7 uT m at once; the rate limit allows 100 uT m, fine here.
     /// let cmd = setup.try_next_setting(&e, 10.0e-3, 0.0, 0.0)?;
     /// // negative charge: the sign flips (B rho 4.7431804486e-3 T m, mpmath, CODATA 2018)
-    /// assert!((cmd.setting_tm() - 4.743_180_448_575_933e-3 * 10.0e-3 / 2.0).abs() < 1e-15);
+    /// assert!((cmd.setting() - 4.743_180_448_575_933e-3 * 10.0e-3 / 2.0).abs() < 1e-15);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_next_setting(
@@ -223,7 +223,7 @@ fn clamp<T: Real>(x: T, limit: T) -> T {
 /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6)?;
 /// let cmd = setup.try_next_setting(&p, 5.0e-3, 0.0, 0.0)?;
 /// assert!(cmd.rate_limited());
-/// assert_eq!(cmd.change_tm(), -1.0e-5);
+/// assert_eq!(cmd.change(), -1.0e-5);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -243,12 +243,12 @@ impl<T: Real> SteeringCommand<T> {
     /// use fourforce::{Motion, Species, steer::SteeringSetup};
     /// let setup = SteeringSetup::try_new(1.0_f32, 0.5, 1.0e-3, 1.0e-3)?;
     /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6)?;
-    /// assert_eq!(setup.try_next_setting(&p, 0.0, 0.0, 2.0e-4)?.setting_tm(), 2.0e-4);
+    /// assert_eq!(setup.try_next_setting(&p, 0.0, 0.0, 2.0e-4)?.setting(), 2.0e-4);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
     #[inline]
-    pub const fn setting_tm(&self) -> T {
+    pub const fn setting(&self) -> T {
         self.setting_tm
     }
 
@@ -259,12 +259,12 @@ impl<T: Real> SteeringCommand<T> {
     /// use fourforce::{Motion, Species, steer::SteeringSetup};
     /// let setup = SteeringSetup::try_new(1.0_f32, 0.5, 1.0e-3, 1.0e-3)?;
     /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6)?;
-    /// assert_eq!(setup.try_next_setting(&p, 0.0, 0.0, 2.0e-4)?.change_tm(), 0.0);
+    /// assert_eq!(setup.try_next_setting(&p, 0.0, 0.0, 2.0e-4)?.change(), 0.0);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
     #[inline]
-    pub const fn change_tm(&self) -> T {
+    pub const fn change(&self) -> T {
         self.change_tm
     }
 
@@ -292,7 +292,7 @@ impl<T: Real> SteeringCommand<T> {
     /// let setup = SteeringSetup::try_new(1.0_f32, 1.0, 1.0e-4, 1.0)?;
     /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6)?;
     /// let cmd = setup.try_next_setting(&p, -0.1, 0.0, 0.0)?;
-    /// assert!(cmd.saturated() && cmd.setting_tm() == 1.0e-4);
+    /// assert!(cmd.saturated() && cmd.setting() == 1.0e-4);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]

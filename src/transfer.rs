@@ -889,7 +889,7 @@ impl<T: Real> Twiss<T> {
 /// let beam = Envelope::try_new(waist, waist, [0.0; 4], 1.0e-6, 1.0e-6, 1.0e-3)?;
 /// let after = beam.try_through(&TransferMap::try_drift(&p, 1.0)?)?;
 /// // beta(s) = beta0 + s^2/beta0 = 2 m: size sqrt(2e-6) m
-/// assert!((after.size_x_m() - 2.0e-6_f64.sqrt()).abs() < 1e-18);
+/// assert!((after.size_x() - 2.0e-6_f64.sqrt()).abs() < 1e-18);
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -965,7 +965,7 @@ impl<T: Real> Envelope<T> {
     /// ```
     /// use fourforce::transfer::{Envelope, Twiss};
     /// let t = Twiss::try_new(4.0_f64, 0.0)?;
-    /// assert_eq!(Envelope::try_lattice(t, t, [0.0; 4])?.size_x_m(), 2.0);
+    /// assert_eq!(Envelope::try_lattice(t, t, [0.0; 4])?.size_x(), 2.0);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_lattice(x: Twiss<T>, y: Twiss<T>, dispersion: [T; 4]) -> Result<Self, Error> {
@@ -1046,11 +1046,11 @@ impl<T: Real> Envelope<T> {
     /// use fourforce::transfer::{Envelope, Twiss};
     /// let t = Twiss::try_new(4.0_f64, 0.0)?;
     /// let e = Envelope::try_new(t, t, [0.3, 0.0, 0.0, 0.0], 1.0e-6, 1.0e-6, 1.0e-2)?;
-    /// assert!((e.size_x_m() - (4.0e-6_f64 + 9.0e-6).sqrt()).abs() < 1e-18);
+    /// assert!((e.size_x() - (4.0e-6_f64 + 9.0e-6).sqrt()).abs() < 1e-18);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
-    pub fn size_x_m(&self) -> T {
+    pub fn size_x(&self) -> T {
         self.size(0)
     }
 
@@ -1060,11 +1060,11 @@ impl<T: Real> Envelope<T> {
     /// ```
     /// use fourforce::transfer::{Envelope, Twiss};
     /// let t = Twiss::try_new(4.0_f64, 0.0)?;
-    /// assert_eq!(Envelope::try_new(t, t, [0.0; 4], 1.0, 1.0, 0.0)?.size_y_m(), 2.0);
+    /// assert_eq!(Envelope::try_new(t, t, [0.0; 4], 1.0, 1.0, 0.0)?.size_y(), 2.0);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
-    pub fn size_y_m(&self) -> T {
+    pub fn size_y(&self) -> T {
         self.size(2)
     }
 
@@ -1081,11 +1081,11 @@ impl<T: Real> Envelope<T> {
     /// use fourforce::transfer::{Envelope, Twiss};
     /// let t = Twiss::try_new(4.0_f64, 1.0)?;
     /// let e = Envelope::try_new(t, t, [0.0; 4], 2.0e-6, 1.0e-6, 0.0)?;
-    /// assert!((e.emittance_x_m() / 2.0e-6 - 1.0).abs() < 1e-15);
+    /// assert!((e.emittance_x() / 2.0e-6 - 1.0).abs() < 1e-15);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
-    pub fn emittance_x_m(&self) -> T {
+    pub fn emittance_x(&self) -> T {
         self.emittance(0)
     }
 
@@ -1096,11 +1096,11 @@ impl<T: Real> Envelope<T> {
     /// use fourforce::transfer::{Envelope, Twiss};
     /// let t = Twiss::try_new(4.0_f64, 1.0)?;
     /// let e = Envelope::try_new(t, t, [0.0; 4], 2.0e-6, 1.0e-6, 0.0)?;
-    /// assert!((e.emittance_y_m() / 1.0e-6 - 1.0).abs() < 1e-15);
+    /// assert!((e.emittance_y() / 1.0e-6 - 1.0).abs() < 1e-15);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
-    pub fn emittance_y_m(&self) -> T {
+    pub fn emittance_y(&self) -> T {
         self.emittance(2)
     }
 

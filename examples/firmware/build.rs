@@ -23,7 +23,7 @@ fn readings(machine: &Machine<f64>) -> Vec<Reading<f32>> {
     let species = machine.window.species();
     let motion = |t_ev: f64| Motion::try_from_kinetic_energy(species, t_ev).expect("valid energy");
     let flight_time = |t_ev: f64| motion(t_ev).flight_time(machine.flight_base_m);
-    let drift = machine.steering.drift_m();
+    let drift = machine.steering.drift();
     let readback = |t_ev: f64, offset: f64| {
         let brho = motion(t_ev)
             .try_magnetic_rigidity()

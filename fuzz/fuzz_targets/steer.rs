@@ -57,7 +57,7 @@ fn run<T: Bits>(input: &mut Input<'_>) {
         Ok(cmd) => {
             assert!(measured.is_finite() && target.is_finite() && current.is_finite());
             assert!(species.charge() != T::ZERO, "a neutral beam was steered");
-            let (s, c) = (cmd.setting_tm(), cmd.change_tm());
+            let (s, c) = (cmd.setting(), cmd.change());
             assert!(
                 s.is_finite() && c.is_finite(),
                 "setting {s:?}, change {c:?}"

@@ -114,7 +114,7 @@ pub struct Particle<T: Real> {
 }
 
 impl<T: Real> Particle<T> {
-    /// A particle at `position` (m) with `u = γβ` (`beta_gamma`, dimensionless) at `time_s` (s).
+    /// A particle at `position_m` (m) with `u = γβ` (`beta_gamma`, dimensionless) at `time_s` (s).
     ///
     /// # Errors
     /// [`Error::NonFinite`] if any input is NaN or infinite, or if `γ` overflows the precision.
@@ -127,10 +127,11 @@ impl<T: Real> Particle<T> {
     /// assert_eq!(bad, Err(Error::NonFinite));
     /// ```
     pub fn try_new(
-        position: ThreeVector<T>,
+        position_m: ThreeVector<T>,
         beta_gamma: ThreeVector<T>,
         time_s: T,
     ) -> Result<Self, Error> {
+        let position = position_m;
         if !(position.is_finite() && beta_gamma.is_finite() && time_s.is_finite()) {
             return Err(Error::NonFinite);
         }
@@ -148,7 +149,7 @@ impl<T: Real> Particle<T> {
     }
 
     /// A particle in the state of motion `motion`, moving along `direction` (any length), at
-    /// `position` (m) at time 0: `u = βγ · direction/|direction|`, `γ` from the motion.
+    /// `position_m` (m) at time 0: `u = βγ · direction/|direction|`, `γ` from the motion.
     ///
     /// The particle's `γ` is the motion's (within the motion's promised bound), and `|u|` its `βγ`
     /// to within the rounding of the unit vector (1 eps).
@@ -171,8 +172,9 @@ impl<T: Real> Particle<T> {
     pub fn try_from_motion(
         motion: &Motion<T>,
         direction: ThreeVector<T>,
-        position: ThreeVector<T>,
+        position_m: ThreeVector<T>,
     ) -> Result<Self, Error> {
+        let position = position_m;
         if !(direction.is_finite() && position.is_finite()) {
             return Err(Error::NonFinite);
         }
@@ -211,7 +213,7 @@ impl<T: Real> Particle<T> {
         Motion::try_from_beta_gamma(species, self.beta_gamma.norm())
     }
 
-    /// A particle at rest at `position` (m) at time 0.
+    /// A particle at rest at `position_m` (m) at time 0.
     ///
     /// # Examples
     /// ```
@@ -221,9 +223,9 @@ impl<T: Real> Particle<T> {
     /// assert_eq!(SOURCE.gamma(), 1.0);
     /// ```
     #[must_use]
-    pub const fn at_rest(position: ThreeVector<T>) -> Self {
+    pub const fn at_rest(position_m: ThreeVector<T>) -> Self {
         Self {
-            position,
+            position: position_m,
             beta_gamma: ThreeVector::ZERO,
             gamma: T::ONE,
             time: T::ZERO,

@@ -45,7 +45,7 @@ fn converges_geometrically<T: Real>(species: Species<T>, kinetic_ev: f64) {
         setting = setup
             .try_next_setting(&beam, x, target, setting)
             .unwrap()
-            .setting_tm();
+            .setting();
         let err = (monitor_reading(beam, x0, s0, setting, t(2.0)) - target).to_f64();
         let expected = first.to_f64() * (1.0_f64 - gain).powi(k);
         // (1 - g)^k with the model exact; rounding floor 1e-6 of the 2 mm offset in f32
@@ -68,7 +68,7 @@ fn model_error_still_converges<T: Real>() {
         setting = setup
             .try_next_setting(&beam, x, T::ZERO, setting)
             .unwrap()
-            .setting_tm();
+            .setting();
     }
     let x = monitor_reading(beam, t(2e-3), T::ZERO, setting, t(3.0)).to_f64();
     assert!(x.abs() < 2e-3 * 0.25_f64.powi(19), "{x:e}");
@@ -82,24 +82,24 @@ fn limits_act<T: Real>() {
         .try_next_setting(&beam, t(5e-3), T::ZERO, T::ZERO)
         .unwrap();
     assert!(cmd.rate_limited() && !cmd.saturated());
-    assert_eq!(cmd.setting_tm(), t(-10e-6));
+    assert_eq!(cmd.setting(), t(-10e-6));
     let cmd = setup
         .try_next_setting(&beam, t(5e-3), T::ZERO, t(-45e-6))
         .unwrap();
     assert!(cmd.rate_limited() && cmd.saturated());
-    assert_eq!(cmd.setting_tm(), t(-50e-6));
-    assert_eq!(cmd.change_tm(), t::<T>(-50e-6) - t::<T>(-45e-6));
+    assert_eq!(cmd.setting(), t(-50e-6));
+    assert_eq!(cmd.change(), t::<T>(-50e-6) - t::<T>(-45e-6));
     // a setting outside the range comes back inside first; on target nothing else moves
     let cmd = setup
         .try_next_setting(&beam, T::ZERO, T::ZERO, t(1.0))
         .unwrap();
-    assert_eq!((cmd.setting_tm(), cmd.change_tm()), (t(50e-6), T::ZERO));
+    assert_eq!((cmd.setting(), cmd.change()), (t(50e-6), T::ZERO));
     // electrons: the sign flips
     let e = Motion::try_from_kinetic_energy(Species::<T>::ELECTRON, t(1e6)).unwrap();
     let cmd = setup
         .try_next_setting(&e, t(1e-5), T::ZERO, T::ZERO)
         .unwrap();
-    assert!(cmd.setting_tm() > T::ZERO);
+    assert!(cmd.setting() > T::ZERO);
 }
 
 fn bad_inputs_are_typed_errors<T: Real>() {
@@ -171,8 +171,8 @@ proptest! {
         let setup = SteeringSetup::try_new(1.5, gain, max_field, max_change).unwrap();
         let beam = Motion::try_from_kinetic_energy(Species::PROTON, kinetic).unwrap();
         let cmd = setup.try_next_setting(&beam, measured, target, current).unwrap();
-        prop_assert!(cmd.setting_tm().abs() <= max_field);
-        prop_assert!(cmd.change_tm().abs() <= max_change * (1.0 + 2.0 * f32::EPSILON) + max_field * f32::EPSILON);
-        prop_assert!(cmd.setting_tm().is_finite() && cmd.change_tm().is_finite());
+        prop_assert!(cmd.setting().abs() <= max_field);
+        prop_assert!(cmd.change().abs() <= max_change * (1.0 + 2.0 * f32::EPSILON) + max_field * f32::EPSILON);
+        prop_assert!(cmd.setting().is_finite() && cmd.change().is_finite());
     }
 }

@@ -532,7 +532,7 @@ macro_rules! sharper_push {
                 let p = Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6).unwrap();
                 let cmd = setup.try_next_setting(&p, 1.0e-3, 0.0, 0.0).unwrap();
                 assert!(!cmd.rate_limited() && !cmd.saturated());
-                assert!(cmd.setting_tm() != 0.0);
+                assert!(cmd.setting() != 0.0);
             }
 
             /// A trend exactly at the threshold is steady; a threshold of 0 is allowed.

@@ -85,10 +85,10 @@ impl<T: Real> Machine<T> {
                 c(w.high()),
             )?,
             steering: SteeringSetup::try_new(
-                c(s.drift_m()),
+                c(s.drift()),
                 c(s.gain()),
-                c(s.max_integrated_field_tm()),
-                c(s.max_change_tm()),
+                c(s.max_integrated_field()),
+                c(s.max_change()),
             )?,
         })
     }
@@ -224,7 +224,7 @@ pub fn cycle<T: Real>(
         T::ZERO,
         reading.readback_tm,
     )?;
-    let corrector_tm = command.setting_tm();
+    let corrector_tm = command.setting();
     // 4. Four-force on the beam inside the corrector; the particle at the corrector's entrance
     // carries the four-velocity (γ, γβ ẑ) (one normalisation of the axis for both steps).
     let field = corrector_field(machine, corrector_tm)?;
