@@ -551,6 +551,23 @@ const CRITICAL: [[f64; 8]; MAX_WITNESSES - 1] = [
     ],
 ];
 
+/// [`CRITICAL`] rounded to `f32` at compile time, so that an `f32` firmware reads `f32` values and
+/// links no software double-precision conversion.
+#[allow(clippy::indexing_slicing)] // constant evaluation: an index out of range fails the build
+const CRITICAL_F32: [[f32; 8]; MAX_WITNESSES - 1] = {
+    let mut t = [[0.0_f32; 8]; MAX_WITNESSES - 1];
+    let mut k = 0;
+    while k < MAX_WITNESSES - 1 {
+        let mut a = 0;
+        while a < 8 {
+            t[k][a] = CRITICAL[k][a] as f32;
+            a += 1;
+        }
+        k += 1;
+    }
+    t
+};
+
 impl Alpha {
     /// Every level the table carries, in declaration order (`0.1` to `10⁻⁶`).
     ///
@@ -608,7 +625,7 @@ impl Alpha {
     /// The critical value `χ²_k(α)` for `k = degrees_of_freedom`, 1 to 15 (`None` outside).
     ///
     /// From the `const` table described under [Consistency](self#consistency): mpmath at 50
-    /// digits, rounded once to `f64` (and from there once more to `f32`).
+    /// digits, rounded once to `f64` (and from there once more to `f32`, at compile time).
     ///
     /// # Examples
     /// ```
@@ -621,8 +638,16 @@ impl Alpha {
     /// ```
     #[must_use]
     pub fn critical_value<T: Real>(self, degrees_of_freedom: usize) -> Option<T> {
-        let row = CRITICAL.get(degrees_of_freedom.checked_sub(1)?)?;
-        row.get(self as usize).map(|&x| T::from_f64(x))
+        let k = degrees_of_freedom.checked_sub(1)?;
+        let a = self as usize;
+        let x = if T::MANTISSA_DIGITS <= 24 {
+            // Widened only to pass through `from_f64`, which narrows it back exactly (the
+            // compiler folds the pair away).
+            f64::from(*CRITICAL_F32.get(k)?.get(a)?)
+        } else {
+            *CRITICAL.get(k)?.get(a)?
+        };
+        Some(T::from_f64(x))
     }
 }
 
