@@ -5,11 +5,13 @@
 //! Run: `cargo run --release --example steering_loop [path/to/trace.svg]`
 //!
 //! The line and the run are described in `line.rs` (the same code runs on the emulated
-//! Cortex-M4F, see `ci/firmware`). Beside the loop, every iteration checks three independent
-//! energy readings against the expected window: a time of flight over 5.000 m, the field that
-//! centres the beam in a 1.6 m-radius spectrometer dipole, and the energy the accelerator's
-//! control system reports. From iteration 36 to 41 the control system reports 80 MeV (a stale
-//! set point): the checks must catch it, and the loop must not rebuild its response for it.
+//! Cortex-M4F, see `ci/firmware`). Beside the loop, every iteration fuses three independent
+//! witnesses of the energy (`fourforce::witness`), each with its standard uncertainty: the energy
+//! the accelerator's control system reports (0.1 %), a time of flight over 5.000 m (20 ps) and the
+//! field that centres the beam in a 1.6 m-radius spectrometer dipole (0.02 %); they must agree
+//! (χ² at α = 10⁻³) and their fused energy must lie in the expected window. From iteration 36 to
+//! 41 the control system reports 80 MeV (a stale set point): the witnesses must disagree and name
+//! the readback as the outlier, and the loop must not rebuild its response for it.
 //!
 //! The process exits with status 1 if the orbit was not corrected within the bounds below, if a
 //! failure was not handled (the stuck monitor not dropped, the saturated corrector not reported,
@@ -25,8 +27,9 @@ mod line;
 use std::fmt::Write as _;
 use std::process::ExitCode;
 
-use fourforce::check::{EnergyWindow, Verdict};
+use fourforce::check::EnergyWindow;
 use fourforce::orbit::State;
+use fourforce::witness::{Alpha, Reading, Watch};
 use fourforce::{Error, Motion, Species};
 use line::{
     CORRECTORS, ENERGY_AT, ITERATIONS, MONITORS, PER_PLANE, Record, SHIFT_AT, STUCK_MONITOR,
@@ -36,6 +39,10 @@ const FAULT: core::ops::Range<usize> = 36..42;
 const FAULTY_EV: f32 = 80.0e6;
 const TOF_BASELINE_M: f32 = 5.0;
 const SPECTROMETER_RADIUS_M: f32 = 1.6;
+/// Standard uncertainties of the witnesses: readback (relative), flight time (s), field (relative).
+const READBACK_SIGMA: f32 = 1.0e-3;
+const TOF_SIGMA_S: f32 = 20.0e-12;
+const FIELD_SIGMA: f32 = 2.0e-4;
 /// Bounds on the true orbit (all monitors, both planes): rms after settling, before each event
 /// and at the end; largest offset at any time after the first correction.
 const SETTLED_RMS_M: f32 = 0.4e-3;
@@ -48,15 +55,6 @@ fn rms(b: &[[f32; 2]; MONITORS]) -> f32 {
 
 fn max_abs(b: &[[f32; 2]; MONITORS]) -> f32 {
     b.as_flattened().iter().fold(0.0, |a, x| a.max(x.abs()))
-}
-
-fn word(v: &Verdict<f32>) -> &'static str {
-    match v {
-        Verdict::Inside { .. } => "inside",
-        Verdict::Low { .. } => "LOW",
-        Verdict::High { .. } => "HIGH",
-        Verdict::Impossible(_) => "IMPOSSIBLE",
-    }
 }
 
 fn main() -> ExitCode {
@@ -83,7 +81,7 @@ fn run() -> Result<ExitCode, Error> {
     println!("Caution: set points only; interlocks and machine protection are separate systems.");
     println!();
     println!(
-        " it  energy    rms(true)  max|x,y|  monitors  limits          state      energy checks (readback/tof/dipole)"
+        " it  energy    rms(true)  max|x,y|  monitors  limits          state      witnesses: fused energy, chi2 (2 dof), outlier"
     );
     let mut orbit = line::try_orbit::<f32>()?;
     let cal = line::calibration::<f32>()?;
@@ -117,22 +115,42 @@ fn run() -> Result<ExitCode, Error> {
         } else {
             r.kinetic_ev
         };
-        let tof = window.check_flight_time(TOF_BASELINE_M, beam.flight_time(TOF_BASELINE_M));
+        // Three witnesses of the energy, fused; the readback is witness 0.
         let field = beam.try_magnetic_rigidity()? / SPECTROMETER_RADIUS_M;
-        let dipole = window.check_centring_field(field, SPECTROMETER_RADIUS_M);
-        let readback = window.check_kinetic_energy(readback_ev);
-        let agree = tof.is_inside() && dipole.is_inside();
-        if !readback.is_inside() && agree {
-            if FAULT.contains(&r.iteration) {
+        let mut watch = Watch::<f32, 3>::new();
+        watch.try_push(Reading::Kinetic {
+            kinetic_ev: readback_ev,
+            sigma_ev: READBACK_SIGMA * readback_ev,
+        })?;
+        watch.try_push(Reading::FlightTime {
+            time_s: beam.flight_time(TOF_BASELINE_M),
+            sigma_s: TOF_SIGMA_S,
+            baseline_m: TOF_BASELINE_M,
+        })?;
+        watch.try_push(Reading::Dipole {
+            field_t: field,
+            sigma_t: FIELD_SIGMA * field,
+            radius_m: SPECTROMETER_RADIUS_M,
+        })?;
+        let witnesses = watch
+            .try_assess(Species::PROTON, Alpha::OnePerMille)
+            .map_err(|e| e.error())?;
+        let fused = witnesses.fused();
+        let plausible = window
+            .check_kinetic_energy(fused.kinetic_energy())
+            .is_inside();
+        let caught = !witnesses.is_consistent() && witnesses.outlier() == Some(0);
+        if FAULT.contains(&r.iteration) {
+            if caught {
                 faults_caught += 1;
             } else {
-                false_alarms += 1;
+                failures.push(format!(
+                    "iteration {}: the wrong energy reading was not caught",
+                    r.iteration
+                ));
             }
-        } else if FAULT.contains(&r.iteration) {
-            failures.push(format!(
-                "iteration {}: the wrong energy reading was not caught",
-                r.iteration
-            ));
+        } else if !witnesses.is_consistent() || !plausible {
+            false_alarms += 1;
         }
         let mut limits = String::new();
         for j in 0..CORRECTORS {
@@ -161,7 +179,7 @@ fn run() -> Result<ExitCode, Error> {
         let quiet = r.iteration % 4 != 0 && event.is_empty() && limits.is_empty();
         if !quiet || r.iteration + 1 == ITERATIONS {
             println!(
-                "{:3}  {:5.1} MeV {:7.1} um {:6.2} mm  {:2}/{MONITORS}      {:15} {:10} {}/{}/{}{event}",
+                "{:3}  {:5.1} MeV {:7.1} um {:6.2} mm  {:2}/{MONITORS}      {:15} {:10} {:.3}({:.0}) MeV {:7.1} {}{event}",
                 r.iteration,
                 r.kinetic_ev / 1.0e6,
                 rms(&r.true_orbit) * 1.0e6,
@@ -169,9 +187,15 @@ fn run() -> Result<ExitCode, Error> {
                 r.outcome.monitors_in_use(),
                 limits.trim_end(),
                 state,
-                word(&readback),
-                word(&tof),
-                word(&dipole),
+                fused.kinetic_energy() / 1.0e6,
+                fused.uncertainty() / 1.0e3,
+                witnesses.chi_squared(),
+                match witnesses.outlier() {
+                    Some(0) => "readback",
+                    Some(1) => "tof",
+                    Some(_) => "dipole",
+                    None => "-",
+                },
             );
         }
     }
