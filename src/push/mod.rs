@@ -215,6 +215,10 @@ impl<T: Real> Particle<T> {
 
     /// A particle at rest at `position_m` (m) at time 0.
     ///
+    /// `const`, so it trusts `position_m`: a non-finite position makes every step refuse to move
+    /// the particle ([`Error::Overflow`], particle unchanged). For positions from outside, use
+    /// [`try_new`](Self::try_new).
+    ///
     /// # Examples
     /// ```
     /// use fourforce::ThreeVector;
