@@ -215,8 +215,9 @@ impl<T: Real> Particle<T> {
 
     /// A particle at rest at `position_m` (m) at time 0.
     ///
-    /// `const`, so it trusts `position_m`: a non-finite position makes every step refuse to move
-    /// the particle ([`Error::Overflow`], particle unchanged). For positions from outside, use
+    /// `const`, so it trusts `position_m`: with a non-finite position every step fails and leaves
+    /// the particle unchanged ([`Error::Overflow`], or [`Error::NonFinite`] if the field source
+    /// answers it with a non-finite field). For positions from outside, use
     /// [`try_new`](Self::try_new).
     ///
     /// # Examples
