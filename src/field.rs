@@ -23,6 +23,9 @@
 //! `*_of` forms take E and B in SI with c in two exact parts, which keeps the near-null case
 //! (|E| ≈ c|B|) exact to about 1 eps in `f32` where the plain formula is off by 4 %.
 //!
+//! It is the crate's one field type: the pushers read a `FieldTensor` from their
+//! [`FieldSource`](crate::push::FieldSource), and a `FieldTensor` is itself a uniform source.
+//!
 //! # Range
 //! The checked constructors refuse any |E| or |cB| component above [`FieldTensor::limit`]
 //! (4·10¹⁸ V/m in `f32`, 10¹⁵⁰ V/m in `f64`; the Schwinger field is 1.3·10¹⁸ V/m): within it, the
