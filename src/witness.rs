@@ -52,12 +52,14 @@
 //! agree at the same `α`. A consistent set names no outlier.
 //!
 //! # Precision (promised)
-//! Implied and fused energies within 16 eps of the exact value for the readings given, their
-//! uncertainties within 64 eps, `χ²` within `1e-8 · (1 + χ²)` in `f64` whenever every witness has
-//! `σ_T/T ≥ 1e-6` (in `f32` the same bound is `3e-2 · (1 + χ²)` for `σ_T/T ≥ 1e-4`: `χ²` measures
-//! differences of the `T_i` in units of their `σ`, so it cannot be better than the `T_i`
-//! themselves). A reading's own rounding is amplified as in [`Motion`]'s constructors (a speed
-//! near `c` by `β²γ²`).
+//! Implied and fused energies within 16 eps of the exact values for the readings given, their
+//! uncertainties within 64 eps. `χ²` measures the differences of the `T_i` in units of their `σ_i`,
+//! so it carries their errors amplified by `T_i/σ_i`: it is within
+//! `(1 + χ²) · 16 √n eps · max(T_i/σ_i)` of the exact value (for example `1e-8 · (1 + χ²)` in
+//! `f64` for 16 witnesses of `σ_T/T ≥ 1.5e-6`, and `3e-2 · (1 + χ²)` in `f32` for four witnesses
+//! of `σ_T/T ≥ 1.3e-4`).
+//! A reading's own rounding is amplified as in [`Motion`]'s constructors (a speed near `c` by
+//! `β²γ²`). Measured figures: `docs/accuracy.md`.
 //!
 //! # Examples
 //! ```
