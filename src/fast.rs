@@ -16,7 +16,7 @@
 //! coarse interlocks, first guesses); keep [`Motion`](crate::Motion) for set points.
 //!
 //! Promised bounds, checked over a dense sweep against `f64` (every species constant, kinetic
-//! energies from 1 meV to 1 PeV; `checks/tests/suite/firmware_fast.rs`), in `eps` = 2⁻²³ relative:
+//! energies from 1 meV to 1 PeV; `checks/tests/suite/fast.rs`), in `eps` = 2⁻²³ relative:
 //!
 //! | function | bound (eps) | bound (relative) |
 //! | --- | --- | --- |

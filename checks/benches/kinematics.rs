@@ -4,12 +4,12 @@
 //! Each benchmark turns a batch of 64 inputs (a log grid over 1 eV .. 100 TeV of a proton, held
 //! behind `black_box`) into full states: ours is `Motion::try_from_*`, which computes every
 //! quantity at once; the naive one finds T by the textbook formula for that input and then every
-//! quantity the textbook way (tests/suite/kinematics_support/naive.rs). The result sums a few
+//! quantity the textbook way (tests/suite/reference/naive.rs). The result sums a few
 //! quantities so that nothing is optimised away.
 //!
 //! Run bounded: `nice cargo bench -p fourforce-checks --bench kinematics -- --warm-up-time 1 --measurement-time 2`.
 
-#[path = "../tests/suite/kinematics_support/naive.rs"]
+#[path = "../tests/suite/reference/naive.rs"]
 mod naive;
 
 use std::hint::black_box;

@@ -1,30 +1,31 @@
-//! fourforce's integration tests as one binary (one link, one run): a module per file.
+//! fourforce's integration tests as one binary: a module per library module (`spacetime`,
+//! `kinematics`, `push`, ...), each holding every check of that module (exact values, published
+//! values, properties, f32 against f64, cross-checks, regressions). `tolerance` is the one table of
+//! error budgets and error measures; `reference` reads the 50-digit vectors of `../reference/`.
 //!
 //! Run all: `cargo test -p fourforce-checks --all-features`; one module:
-//! `cargo test -p fourforce-checks --all-features --test suite -- MODULE::`.
+//! `cargo test -p fourforce-checks --all-features --test suite -- kinematics::`.
 #![allow(clippy::unwrap_used)]
 
-mod firmware_defmt;
-mod firmware_fast;
-mod foundation_common;
-mod foundation_exact;
-mod foundation_gamma;
-mod foundation_nalgebra;
-mod foundation_precision;
-mod foundation_properties;
-mod foundation_published;
-mod kinematics_optics;
-mod kinematics_properties;
-mod kinematics_published;
-mod kinematics_reference;
-mod kinematics_support;
-mod motion_beamline;
-mod motion_check;
-mod motion_push;
-mod motion_steer;
+// support
+mod reference;
+mod tolerance;
+
+// one module per library module, lowest first
+mod beamline;
+mod boost;
+mod check;
+mod defmt;
+mod fast;
+mod field;
+mod force;
+mod kinematics;
+mod optics;
 mod orbit;
-mod reliability_mutants;
-mod reliability_regressions;
+mod push;
+mod spacetime;
 mod species;
+mod steer;
 mod transfer;
+mod vector;
 mod witness;

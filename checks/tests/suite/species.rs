@@ -162,3 +162,27 @@ fn the_named_species_are_valid() {
         assert_eq!(Species::try_new(s.rest_energy(), s.charge()), Ok(s));
     }
 }
+
+mod mutants {
+    //! Sharper tests that kill mutants cargo-mutants found surviving: each pins a result a wrong
+    //! operator or a constant return would change; values exact in both precisions.
+    #![allow(clippy::float_cmp)]
+
+    use fourforce::Species;
+    macro_rules! sharper {
+        ($t:ident) => {
+            mod $t {
+                use super::*;
+
+                #[test]
+                fn charge_over_rest_energy_is_a_quotient() {
+                    let s = Species::<$t>::try_new(4.0, -2.0).unwrap();
+                    assert_eq!(s.charge_over_rest_energy(), -0.5);
+                }
+            }
+        };
+    }
+
+    sharper!(f32);
+    sharper!(f64);
+}

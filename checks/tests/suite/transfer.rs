@@ -5,13 +5,10 @@
 //! memory; symplecticity of Hamiltonian maps (a general theorem of mechanics).
 #![allow(clippy::float_cmp, clippy::needless_range_loop)]
 
+use crate::tolerance::t;
 use fourforce::beamline::{BeamLine, Element};
 use fourforce::transfer::TransferMap;
 use fourforce::{Motion, Real, Species};
-
-fn t<T: Real>(x: f64) -> T {
-    T::from_f64(x)
-}
 
 fn motion<T: Real>(species: Species<T>, kinetic_ev: f64) -> Motion<T> {
     Motion::try_from_kinetic_energy(species, t(kinetic_ev)).unwrap()

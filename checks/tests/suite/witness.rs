@@ -16,12 +16,13 @@
 //! `cargo test -p fourforce-checks --test suite -- witness:: --nocapture` prints the worst cases.
 #![allow(clippy::unwrap_used, clippy::float_cmp)]
 
-use super::kinematics_support::{Exact, parse};
+use crate::reference::{Exact, parse};
+use crate::tolerance::{WITNESS_ENERGY, WITNESS_SIGMA};
 use fourforce::witness::{Alpha, Estimate, Reading, SpeciesVerdict, Watch};
 use fourforce::{Error, Motion, Real, Species};
 
-const T_BOUND: f64 = 16.0;
-const SIGMA_BOUND: f64 = 64.0;
+const T_BOUND: f64 = WITNESS_ENERGY.f64;
+const SIGMA_BOUND: f64 = WITNESS_SIGMA.f64;
 
 fn label<T: Real>() -> &'static str {
     if T::MANTISSA_DIGITS == 24 {

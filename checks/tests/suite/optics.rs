@@ -1,26 +1,22 @@
 //! The beam-line functions of `fourforce::optics` against published and mpmath values, in both
 //! precisions, and their typed errors.
 //!
-//! Sources: published-checks.md §7.1 (gyration in uniform B, Jackson 3rd ed. §12.2, from memory;
-//! values mpmath 50 digits from CODATA 2018) and §7.5 (energy gain through a potential
-//! difference, energy conservation); the flight-time differences were computed for this file with
+//! Sources: the gyration in uniform B (Jackson 3rd ed. §12.2, from memory; values mpmath 50 digits
+//! from CODATA 2018) and the energy gain through a voltage (energy conservation); the flight-time differences were computed for this file with
 //! mpmath at 50 digits from CODATA 2018 (m_e c^2, m_mu c^2, m_p c^2) and the exact c.
 #![allow(clippy::unwrap_used, clippy::float_cmp, clippy::type_complexity)]
 // Reference values are typed with all the digits their source prints.
 #![allow(clippy::excessive_precision)]
 
+use crate::tolerance::eps_rel;
 use fourforce::{Error, Motion, Real, Species, optics};
-
-fn eps_err<T: Real>(got: T, want: f64) -> f64 {
-    ((got.to_f64() - want) / want).abs() / T::EPSILON.to_f64()
-}
 
 fn state<T: Real>(s: Species<T>, t_ev: f64) -> Motion<T> {
     Motion::try_from_kinetic_energy(s, T::from_f64(t_ev)).unwrap()
 }
 
 fn gyration<T: Real>() {
-    // published-checks §7.1, pitch angle 90 degrees: (species, T eV, B T, radius m, omega rad/s).
+    // [Jackson] §12.2, values [mpmath], pitch angle 90 degrees: (species, T eV, B T, radius m, omega rad/s).
     let rows: [(Species<T>, f64, f64, f64, f64); 3] = [
         (Species::PROTON, 10.0e6, 1.0, 0.458155375777, 94778196.0429),
         (
@@ -47,7 +43,7 @@ fn gyration<T: Real>() {
         assert!(((w - omega) / omega).abs() <= tol + 2e-16, "{w} vs {omega}");
     }
     // Gyroradius with pitch angle 30 degrees: r = pc sin(alpha)/(c |Q| B) = 0.0237159022429 m
-    // for a 1 MeV electron in 0.1 T (published-checks §7.1).
+    // for a 1 MeV electron in 0.1 T ([Jackson] §12.2, values [mpmath]).
     let e = state(Species::<T>::ELECTRON, 1.0e6);
     let r = optics::try_bending_radius(&e, T::from_f64(0.1)).unwrap() * T::HALF;
     assert!(((r.to_f64() - 0.0237159022429) / 0.0237159022429).abs() <= 1e-6);
@@ -124,18 +120,18 @@ fn flight_differences<T: Real>() {
         let lb = optics::try_lag_behind_light(&b, l).unwrap().to_f64();
         let cond = (la.abs() + lb.abs()) / (la - lb).abs();
         let dt = optics::try_flight_time_difference(&a, &b, l).unwrap();
-        let err = eps_err(dt, want);
+        let err = eps_rel(dt, want);
         assert!(err <= 8.0 * cond, "{err} eps, condition {cond}");
         // The naive difference of two flight times in f32 loses everything for the electrons.
         if T::MANTISSA_DIGITS == 24 && sa == sb {
             let naive = a.flight_time(l) - b.flight_time(l);
-            assert!(eps_err(naive, want) > 1e3);
+            assert!(eps_rel(naive, want) > 1e3);
         }
     }
-    // The lag of a 10 GeV electron over 100 m: 4.3545665691171279e-16 s (published-checks §6).
+    // The lag of a 10 GeV electron over 100 m: 4.3545665691171279e-16 s ([IEEE 754] single precision against [mpmath]).
     let e = state(Species::<T>::ELECTRON, 1.0e10);
     assert!(
-        eps_err(
+        eps_rel(
             optics::try_lag_behind_light(&e, T::from_f64(100.0)).unwrap(),
             4.3545665691171279e-16
         ) <= 8.0
@@ -149,22 +145,22 @@ fn flight_time_differences_both_precisions() {
 }
 
 fn kicks<T: Real>() {
-    // 250 MeV proton, B rho = 2.4321284387255044 T m (published-checks §3). A hard-edge dipole of
+    // 250 MeV proton, B rho = 2.4321284387255044 T m ([mpmath], CODATA 2018). A hard-edge dipole of
     // 0.5 T over 0.2 m: asin(0.1 / B rho) = 0.041127843262663984 rad; the small-angle form gives
     // 0.041116249622245476 rad (mpmath).
     let p = state(Species::<T>::PROTON, 250.0e6);
     let (b, l) = (T::from_f64(0.5), T::from_f64(0.2));
     let exact = optics::try_kick_angle_hard_edge(&p, b, l).unwrap();
-    assert!(eps_err(exact, 0.041127843262663984) <= 8.0);
+    assert!(eps_rel(exact, 0.041127843262663984) <= 8.0);
     let small = optics::try_kick_angle(&p, b * l).unwrap();
-    assert!(eps_err(small, 0.041116249622245476) <= 8.0);
+    assert!(eps_rel(small, 0.041116249622245476) <= 8.0);
     // And back: the field for that angle, and the energy from that field.
     let field = optics::try_field_for_angle_hard_edge(&p, exact, l).unwrap();
-    assert!(eps_err(field, 0.5) <= 8.0);
+    assert!(eps_rel(field, 0.5) <= 8.0);
     let back = optics::try_motion_from_dipole(Species::<T>::PROTON, b, l, exact).unwrap();
-    assert!(eps_err(back.kinetic_energy(), 250.0e6) <= 16.0); // condition of T in B rho: (gamma + 1)/gamma = 1.8
+    assert!(eps_rel(back.kinetic_energy(), 250.0e6) <= 16.0); // condition of T in B rho: (gamma + 1)/gamma = 1.8
     let bl = optics::try_integrated_field_for_angle(&p, small).unwrap();
-    assert!(eps_err(bl, 0.1) <= 4.0);
+    assert!(eps_rel(bl, 0.1) <= 4.0);
     // A negative charge turns the other way.
     let e = state(Species::<T>::ELECTRON, 1.0e6);
     assert!(optics::try_kick_angle(&e, T::from_f64(1e-4)).unwrap() < T::ZERO);
@@ -172,33 +168,33 @@ fn kicks<T: Real>() {
     let a = state(Species::<T>::ALPHA, 5.0e6);
     let theta =
         optics::try_electrostatic_kick_angle(&a, T::from_f64(2.0e4), T::from_f64(0.5)).unwrap();
-    assert!(eps_err(theta, 1.0e4 / 4996650.9299730097) <= 8.0);
+    assert!(eps_rel(theta, 1.0e4 / 4996650.9299730097) <= 8.0);
     let field = optics::try_deflector_field_for_angle(&a, theta, T::from_f64(0.5)).unwrap();
-    assert!(eps_err(field, 2.0e4) <= 8.0);
+    assert!(eps_rel(field, 2.0e4) <= 8.0);
     let back = Motion::try_from_electric_rigidity(
         Species::<T>::ALPHA,
         field * T::from_f64(4996650.9299730097 / 2.0e4),
     )
     .unwrap();
-    assert!(eps_err(back.kinetic_energy(), 5.0e6) <= 16.0);
+    assert!(eps_rel(back.kinetic_energy(), 5.0e6) <= 16.0);
     // Electric bending radius: E rho / E.
     let r = optics::try_electric_bending_radius(&a, T::from_f64(2.0e4)).unwrap();
-    assert!(eps_err(r, 4996650.9299730097 / 2.0e4) <= 8.0);
+    assert!(eps_rel(r, 4996650.9299730097 / 2.0e4) <= 8.0);
     // Energy from a centring field: B rho = B rho.
     let c = Motion::try_from_magnetic_rigidity(
         Species::<T>::PROTON,
         T::from_f64(1.5) * T::from_f64(2.4321284387255044 / 1.5),
     )
     .unwrap();
-    assert!(eps_err(c.kinetic_energy(), 250.0e6) <= 16.0);
-    // Energy from a flight time: 10 m at 3.8120493548822230 ns/m is a 1 GeV proton (§3).
+    assert!(eps_rel(c.kinetic_energy(), 250.0e6) <= 16.0);
+    // Energy from a flight time: 10 m at 3.8120493548822230 ns/m is a 1 GeV proton ([mpmath]).
     let f = Motion::try_from_flight_time(
         Species::<T>::PROTON,
         T::from_f64(10.0),
         T::from_f64(38.120493548822230e-9),
     )
     .unwrap();
-    assert!(eps_err(f.kinetic_energy(), 1.0e9) <= 64.0); // condition of T in t: gamma^3 beta^2/(gamma - 1) = 6.3, on the f32 input rounding
+    assert!(eps_rel(f.kinetic_energy(), 1.0e9) <= 64.0); // condition of T in t: gamma^3 beta^2/(gamma - 1) = 6.3, on the f32 input rounding
 }
 
 #[test]
@@ -313,7 +309,7 @@ mod properties {
                         let rho = optics::try_bending_radius(&m, b).unwrap();
                         let back = Motion::try_from_magnetic_rigidity(s, b * rho).unwrap();
                         // B rho = B * rho carries 3 roundings; T has condition <= 2 in B rho.
-                        prop_assert!(eps_err(back.momentum(), m.momentum().to_f64()) <= 8.0);
+                        prop_assert!(eps_rel(back.momentum(), m.momentum().to_f64()) <= 8.0);
                     }
 
                     #[test]
@@ -327,7 +323,7 @@ mod properties {
                         prop_assert!(theta.abs() <= F::PI * F::HALF);
                         let back = optics::try_field_for_angle_hard_edge(&m, theta, l).unwrap();
                         // asin then sin: each within about 1 ulp (libm).
-                        prop_assert!(eps_err(back, b.to_f64()) <= 16.0, "{} vs {}", back, b);
+                        prop_assert!(eps_rel(back, b.to_f64()) <= 16.0, "{} vs {}", back, b);
                     }
 
                     #[test]
@@ -355,7 +351,7 @@ mod properties {
                         prop_assert_eq!(k, -optics::try_kick_angle(&pbar, bl).unwrap());
                         let need = optics::try_integrated_field_for_angle(&p, k).unwrap();
                         if bl != F::ZERO {
-                            prop_assert!(eps_err(need, bl.to_f64()) <= 4.0);
+                            prop_assert!(eps_rel(need, bl.to_f64()) <= 4.0);
                         }
                     }
                 }
@@ -374,4 +370,71 @@ fn cases(default: u32) -> u32 {
         .ok()
         .and_then(|v| v.parse().ok())
         .unwrap_or(default)
+}
+
+mod regressions {
+    //! Regressions: bugs that fuzzing, the f32 sweep and mutation testing found, each with the
+    //! input that exposed it.
+    #![allow(clippy::float_cmp)]
+
+    use fourforce::Error;
+    /// Found by the `optics` fuzz target: the energy gain of an alpha from 2.5525757e38 V (f32) and
+    /// the integrated field for 3e38 rad on a 1 TeV proton were `Ok(inf)`; both are `Overflow` now.
+    #[test]
+    fn optics_products_that_overflow_are_refused() {
+        use fourforce::{Motion, Species, optics};
+        assert_eq!(
+            optics::try_energy_gain(Species::<f32>::ALPHA, 2.552_575_7e38),
+            Err(Error::Overflow)
+        );
+        let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 1.0e12).unwrap();
+        assert_eq!(
+            optics::try_integrated_field_for_angle(&p, 3.0e38),
+            Err(Error::Overflow)
+        );
+        assert_eq!(
+            optics::try_energy_gain(Species::<f32>::ALPHA, 1.0e6),
+            Ok(2.0e6)
+        );
+    }
+}
+
+mod mutants {
+    //! Sharper tests that kill mutants cargo-mutants found surviving: each pins a result a wrong
+    //! operator or a constant return would change; values exact in both precisions.
+    #![allow(clippy::float_cmp)]
+
+    use fourforce::Species;
+    /// Survivors of the full run of 2026-12-02 (`ci/mutants`), one test per mutant or group.
+    macro_rules! sharper_edges {
+        ($t:ident, $name:ident) => {
+            mod $name {
+                use super::*;
+                use fourforce::Error;
+
+                /// The 90° limits of the hard-edge formulas are inclusive: sin θ = 1 is a kick of
+                /// exactly π/2, and a dipole bending by exactly π/2 is a valid measurement.
+                #[test]
+                fn optics_accept_exactly_ninety_degrees() {
+                    use fourforce::{Motion, optics};
+                    let pi_2 = core::$t::consts::FRAC_PI_2;
+                    let m = Motion::try_from_kinetic_energy(Species::<$t>::PROTON, 1.0e8).unwrap();
+                    let brho = m.try_magnetic_rigidity().unwrap();
+                    let kick = optics::try_kick_angle_hard_edge(&m, brho, 1.0).unwrap();
+                    assert!((kick.abs() - pi_2).abs() <= 4.0 * <$t>::EPSILON, "{kick}");
+                    assert!(optics::try_field_for_angle_hard_edge(&m, pi_2, 1.0).is_ok());
+                    assert!(
+                        optics::try_motion_from_dipole(Species::PROTON, 1.0, 1.0, pi_2).is_ok()
+                    );
+                    assert_eq!(
+                        optics::try_motion_from_dipole(Species::PROTON, 1.0, 1.0, 1.6).err(),
+                        Some(Error::AngleOutOfRange)
+                    );
+                }
+            }
+        };
+    }
+
+    sharper_edges!(f32, edges_f32);
+    sharper_edges!(f64, edges_f64);
 }

@@ -1,6 +1,6 @@
 //! The beam line against analytic results and the pushers.
 //!
-//! Sources beside each check: shared/reference/published-checks.md §3 and §7.5 ([mp]: mpmath at
+//! Sources beside each check: SOURCES.md [mpmath] (mpmath at
 //! 50 digits from CODATA 2018), DESIGN's thin-element relations (theta = integral B dl / B rho,
 //! sin theta = L / rho, offset rho (1 - cos theta): Jackson 3rd ed. §12.2, from memory), and a
 //! cross-check against the Boris pusher of this crate.
@@ -8,24 +8,13 @@
 // Reference values are typed with all their published digits.
 #![allow(clippy::excessive_precision)]
 
+use crate::tolerance::{eps, rel, t};
 use fourforce::FieldTensor;
 use fourforce::beamline::{BeamLine, BeamState, Element, KickDirection};
 use fourforce::push::{Boris, Particle, Pusher};
 use fourforce::{Error, Motion, Real, Species, ThreeVector};
 
-fn t<T: Real>(x: f64) -> T {
-    T::from_f64(x)
-}
-
-fn rel<T: Real>(a: T, b: f64) -> f64 {
-    (a.to_f64() / b - 1.0).abs()
-}
-
-fn eps<T: Real>() -> f64 {
-    T::EPSILON.to_f64()
-}
-
-// published-checks §3 [mp]
+// [mpmath] from CODATA 2018
 const PROTON_250_MEV_BRHO: f64 = 2.4321284387255044;
 const PROTON_1_GEV_NS_PER_M: f64 = 3.8120493548822230;
 const ALPHA_5_MEV_ERHO: f64 = 4996650.9299730097;
@@ -42,7 +31,7 @@ fn corrector_then_drift<T: Real>() {
     ])
     .unwrap();
     let end = line.try_transport(BeamState::on_axis(p)).unwrap();
-    // theta = integral B dl / B rho (DESIGN; Jackson §12.2 from memory), B rho from §3 [mp]
+    // theta = integral B dl / B rho (DESIGN; Jackson §12.2 from memory), B rho [mpmath] from CODATA 2018
     let theta = 2.0e-3 / PROTON_250_MEV_BRHO;
     assert!(rel(end.x_slope(), theta) < 4.0 * eps::<T>());
     assert!(rel(end.x(), 3.0 * theta) < 6.0 * eps::<T>());
@@ -60,7 +49,7 @@ fn drift_time_matches_published<T: Real>() {
             .unwrap();
     }
     let end = line.try_transport(BeamState::on_axis(p)).unwrap();
-    // 10 m at 3.8120493548822230 ns/m (published-checks §3 [mp])
+    // 10 m at 3.8120493548822230 ns/m ([mpmath] from CODATA 2018)
     let e = rel(end.time(), 10.0 * PROTON_1_GEV_NS_PER_M * 1e-9);
     assert!(e < 6.0 * eps::<T>(), "{e:e}");
 }
@@ -98,7 +87,7 @@ fn electrostatic_kick_matches_rigidity<T: Real>() {
     }
     .try_apply(&BeamState::on_axis(a))
     .unwrap();
-    // theta = integral E dl / E rho, E rho from §3 [mp]
+    // theta = integral E dl / E rho, E rho [mpmath] from CODATA 2018
     assert!(rel(s.x_slope(), 1.0e4 / ALPHA_5_MEV_ERHO) < 8.0 * eps::<T>());
     assert_eq!(s.kinetic_energy(), t(5e6));
 }
@@ -205,8 +194,8 @@ fn dipole_with_slopes_matches_the_pusher() {
 }
 
 fn gap_gains_q_v_exactly<T: Real>() {
-    // published-checks §7.5: an electron from rest through 10 kV ends at 10 keV, v = 58455214.93
-    // m/s (§3 [mp]). A positive voltage accelerates positive charges: the electron needs -10 kV.
+    // [Landau–Lifshitz] §20, values [mpmath]: an electron from rest through 10 kV ends at 10 keV, v = 58455214.93
+    // m/s ([mpmath], CODATA 2018). A positive voltage accelerates positive charges: the electron needs -10 kV.
     let e = Motion::try_from_kinetic_energy(Species::<T>::ELECTRON, T::ZERO).unwrap();
     let s = Element::AcceleratingGap {
         voltage_v: t(-10e3),
@@ -230,7 +219,7 @@ fn gap_gains_q_v_exactly<T: Real>() {
 }
 
 fn small_gains_survive<T: Real>() {
-    // published-checks §6 "small energy gains vanish": f32 1e9 + 10 == 1e9. The state keeps the
+    // precision trap ([IEEE 754] single precision): f32 1e9 + 10 == 1e9. The state keeps the
     // gains apart in a compensated pair: 1000 gaps of 10 eV on a 1 GeV proton add 10 keV.
     let p = Motion::try_from_kinetic_energy(Species::<T>::PROTON, t(1e9)).unwrap();
     let mut line = BeamLine::<T, 1000>::new();
@@ -370,3 +359,158 @@ both!(
     impossible_elements_are_typed_errors,
     every_element_is_reachable
 );
+
+mod regressions {
+    //! Regressions: bugs that fuzzing, the f32 sweep and mutation testing found, each with the
+    //! input that exposed it.
+    #![allow(clippy::float_cmp)]
+
+    /// Found by mutation testing (a survivor in `BeamState`'s gap): the energy gain is carried as a
+    /// compensated sum, but the kinetic energy was formed as T₀ + (gain + carry), where the carry,
+    /// below half an ulp of the gain, was rounded away. Braking a 1 MeV proton by 999 000 V and then
+    /// 4096 times by 0.1 V (f32) read 590.375 eV instead of 590.4 (700 ulps): the result is the
+    /// difference of nearly equal numbers, where the lost carry is all that remains. Now
+    /// (T₀ + gain) is formed exactly first.
+    #[test]
+    fn braked_beam_keeps_the_carry_of_its_energy_gain() {
+        use fourforce::beamline::{BeamState, Element};
+        use fourforce::{Motion, Species};
+        let m = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 1.0e6).unwrap();
+        let mut b = Element::AcceleratingGap {
+            voltage_v: -999_000.0,
+        }
+        .try_apply(&BeamState::on_axis(m))
+        .unwrap();
+        for _ in 0..4096 {
+            b = Element::AcceleratingGap { voltage_v: -0.1 }
+                .try_apply(&b)
+                .unwrap();
+        }
+        // The exact total in f64: 4096 times the f32 value of 0.1 is exact there.
+        let want = (1000.0 - 4096.0 * f64::from(0.1_f32)) as f32;
+        assert_eq!(b.kinetic_energy(), want);
+        assert_eq!(b.motion().kinetic_energy(), want);
+    }
+}
+
+mod mutants {
+    //! Sharper tests that kill mutants cargo-mutants found surviving: each pins a result a wrong
+    //! operator or a constant return would change; values exact in both precisions.
+    #![allow(clippy::float_cmp)]
+
+    use fourforce::Species;
+    macro_rules! sharper_beamline {
+        ($t:ident, $name:ident) => {
+            /// A drift moves both planes: `y += L y'` as `x += L x'` (straight-line geometry). The
+            /// values are exact in both precisions (powers of two).
+            #[test]
+            fn $name() {
+                use fourforce::beamline::{BeamState, Element};
+                let m = fourforce::Motion::try_from_kinetic_energy(Species::<$t>::PROTON, 1.0e6)
+                    .unwrap();
+                let start = BeamState::try_new(m, 0.25, 0.5, 0.125, 0.0625, 0.0).unwrap();
+                let end = Element::Drift { length_m: 2.0 }.try_apply(&start).unwrap();
+                assert_eq!((end.x(), end.x_slope()), (1.25, 0.5));
+                assert_eq!((end.y(), end.y_slope()), (0.25, 0.0625));
+            }
+        };
+    }
+
+    sharper_beamline!(f32, drift_moves_both_planes_f32);
+    sharper_beamline!(f64, drift_moves_both_planes_f64);
+    macro_rules! sharper_gain {
+        ($t:ident, $name:ident) => {
+            /// The gain of a line of gaps is a compensated sum: its carry (the rounding error of the
+            /// running sum) is added back when the kinetic energy is read. A proton from rest through
+            /// +1 V, then +0.375 eps V: the running sum stays 1 and the carry holds 0.375 eps, so the
+            /// energy reads `1 + 0.375 eps`, which rounds to 1; with the carry subtracted instead it
+            /// would read `1 − 0.375 eps`, which rounds to the float below 1.
+            #[test]
+            fn $name() {
+                use fourforce::beamline::{BeamState, Element};
+                let rest =
+                    fourforce::Motion::try_from_kinetic_energy(Species::<$t>::PROTON, 0.0).unwrap();
+                let small = 0.375 * <$t>::EPSILON;
+                let s = Element::AcceleratingGap { voltage_v: 1.0 }
+                    .try_apply(&BeamState::on_axis(rest))
+                    .unwrap();
+                let s = Element::AcceleratingGap { voltage_v: small }
+                    .try_apply(&s)
+                    .unwrap();
+                assert_eq!(s.kinetic_energy(), 1.0);
+                assert_eq!(s.energy_gain(), 1.0);
+            }
+        };
+    }
+
+    sharper_gain!(f32, gap_gain_carry_is_added_f32);
+    sharper_gain!(f64, gap_gain_carry_is_added_f64);
+    /// Survivors of the full run of 2026-12-02 (`ci/mutants`), one test per mutant or group.
+    macro_rules! sharper_edges {
+        ($t:ident, $name:ident) => {
+            mod $name {
+                use super::*;
+                use fourforce::Error;
+
+                /// The beam line's accessors and the window's bookkeeping say what they hold.
+                #[test]
+                fn containers_report_their_contents() {
+                    use fourforce::beamline::{BeamLine, Element};
+                    use fourforce::check::MovingWindow;
+                    let mut line = BeamLine::<$t, 3>::new();
+                    assert!(line.is_empty());
+                    assert_eq!(line.capacity(), 3);
+                    line.try_push(Element::Drift { length_m: 1.0 }).unwrap();
+                    assert!(!line.is_empty());
+                    let mut w = MovingWindow::<$t, 2>::new();
+                    assert!(w.is_empty() && !w.is_full());
+                    w.try_push(1.0).unwrap();
+                    assert!(!w.is_empty() && !w.is_full());
+                    w.try_push(2.0).unwrap();
+                    assert!(!w.is_empty() && w.is_full());
+                    w.clear();
+                    assert!(w.is_empty() && !w.is_full() && w.len() == 0);
+                    assert_eq!(w.try_mean(), Err(Error::Empty));
+                }
+
+                /// A gap that brings the particle exactly to rest is allowed; one that would leave
+                /// too little momentum for the slopes it carries is refused.
+                #[test]
+                fn gap_to_rest_and_gap_too_strong_for_the_slopes() {
+                    use fourforce::Motion;
+                    use fourforce::beamline::{BeamState, Element};
+                    let m = Motion::try_from_kinetic_energy(Species::<$t>::PROTON, 1.0e6).unwrap();
+                    let stop = Element::AcceleratingGap { voltage_v: -1.0e6 };
+                    let rest = stop.try_apply(&BeamState::on_axis(m)).unwrap();
+                    assert_eq!(rest.kinetic_energy(), 0.0);
+                    let steep = BeamState::try_new(m, 0.0, 1.0, 0.0, 0.0, 0.0).unwrap();
+                    let brake = Element::AcceleratingGap { voltage_v: -0.9e6 };
+                    assert_eq!(brake.try_apply(&steep), Err(Error::AngleOutOfRange));
+                }
+            }
+        };
+    }
+
+    sharper_edges!(f32, edges_f32);
+    sharper_edges!(f64, edges_f64);
+    /// The beam state's time and energy gain are compensated sums: after 4096 equal drifts or gaps
+    /// in f32 they equal the exactly rounded total (N·τ and N·δ are exact in f64).
+    #[test]
+    fn f32_beam_state_sums_are_compensated() {
+        use fourforce::Motion;
+        use fourforce::beamline::{BeamState, Element};
+        let m = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 1.0e6).unwrap();
+        let drift = Element::Drift { length_m: 0.1 };
+        let gap = Element::AcceleratingGap { voltage_v: 0.1 };
+        let tau = f64::from(drift.try_apply(&BeamState::on_axis(m)).unwrap().time());
+        let delta = f64::from(0.1_f32);
+        let (mut s, mut g) = (BeamState::on_axis(m), BeamState::on_axis(m));
+        for _ in 0..4096 {
+            s = drift.try_apply(&s).unwrap();
+            g = gap.try_apply(&g).unwrap();
+        }
+        assert_eq!(s.time(), (4096.0 * tau) as f32);
+        assert_eq!(g.energy_gain(), (4096.0 * delta) as f32);
+        assert_eq!(g.kinetic_energy(), (1.0e6 + 4096.0 * delta) as f32);
+    }
+}

@@ -6,19 +6,22 @@
 //! f32, 8 * 2^-52 in f64) for every species and every kinetic energy from 1 eV to 100 TeV, and
 //! for states built from any other quantity given exactly in the precision. The only allowance:
 //! a state built from the total energy inherits the rounding of the rest energy, amplified by
-//! m/T (DESIGN.md §Precision, published-checks §5 "inherent conditioning"); that term is added
+//! m/T (the conditioning of the input, which no formula removes); that term is added
 //! to its bound and printed.
 //!
-//! `cargo test -p fourforce-checks --test suite -- kinematics_reference:: --nocapture` prints the worst case per quantity,
-//! ours beside the naive textbook formulas (kinematics_support/naive.rs).
+//! `cargo test -p fourforce-checks --test suite -- kinematics::reference_vectors:: --nocapture` prints the worst case per quantity,
+//! ours beside the naive textbook formulas (reference/naive.rs).
 #![allow(clippy::unwrap_used, clippy::float_cmp)]
 
-use super::kinematics_support as support;
+use crate::reference as support;
+use crate::tolerance::MOTION;
 
 use fourforce::{Motion, Real, Species};
 use support::{Exact, QUANTITIES, naive, parse, read, species};
 
-const BOUND: f64 = 8.0;
+/// Every quantity of every state within this many eps (the promise of `Motion`).
+const BOUND: f64 = MOTION.f32;
+const _: () = assert!(MOTION.f32 == MOTION.f64);
 
 #[derive(Clone, Default)]
 struct Worst {

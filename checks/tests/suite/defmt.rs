@@ -132,7 +132,7 @@ fn every_public_type_is_listed() {
     );
     assert!(
         missing.is_empty(),
-        "public types not listed in checks/tests/suite/firmware_defmt.rs (add them to `public_types!` with \
+        "public types not listed in checks/tests/suite/defmt.rs (add them to `public_types!` with \
          a defmt::Format derive): {missing:?}"
     );
 }

@@ -6,17 +6,9 @@
 //! gamma)^2 are identities of special relativity (Jackson 3rd ed. ch. 11, from memory).
 #![allow(clippy::float_cmp, clippy::unwrap_used)]
 
+use crate::tolerance::eps_apart;
 use fourforce::{Error, Motion, Real, Species};
 use proptest::prelude::*;
-
-fn rel<T: Real>(got: T, want: T) -> f64 {
-    let (g, w) = (got.to_f64(), want.to_f64());
-    if g == w {
-        0.0
-    } else {
-        ((g - w) / w).abs() / T::EPSILON.to_f64()
-    }
-}
 
 /// A species: one of the named ones, or a custom ion (rest energy 0.1 MeV .. 250 GeV, charge
 /// -8 .. 92, not zero).
@@ -93,7 +85,7 @@ macro_rules! properties {
                     for (i, (built, read, want, bound)) in checks.into_iter().enumerate() {
                         let m = built.unwrap();
                         assert_sound(&m);
-                        let err = rel(read(&m), want);
+                        let err = eps_apart(read(&m), want);
                         prop_assert!(err <= bound, "check {} {:?}: {} eps", i, s, err);
                     }
                     // The flight time read from an ultra-relativistic state may round to L/c or
@@ -101,7 +93,7 @@ macro_rules! properties {
                     match Motion::try_from_flight_time(s, l, base.flight_time(l)) {
                         Ok(m) => {
                             assert_sound(&m);
-                            let err = rel(m.flight_time(l), base.flight_time(l));
+                            let err = eps_apart(m.flight_time(l), base.flight_time(l));
                             prop_assert!(err <= 8.0, "flight time {:?}: {} eps", s, err);
                         }
                         Err(e) => {
@@ -116,7 +108,7 @@ macro_rules! properties {
                         let v = base.speed();
                         if let Ok(m) = Motion::try_from_speed(s, v) {
                             assert_sound(&m);
-                            prop_assert!(rel(m.speed(), v) <= 4.0);
+                            prop_assert!(eps_apart(m.speed(), v) <= 4.0);
                         }
                     }
                 }
@@ -132,11 +124,11 @@ macro_rules! properties {
                     let base = Motion::try_from_kinetic_energy(s, t).unwrap();
                     if base.gamma() >= F::TWO {
                         let m = Motion::try_from_gamma(s, base.gamma()).unwrap();
-                        prop_assert!(rel(m.kinetic_energy(), t) <= 8.0, "from gamma {:?}", base);
+                        prop_assert!(eps_apart(m.kinetic_energy(), t) <= 8.0, "from gamma {:?}", base);
                     }
                     if base.beta() <= F::from_f64(0.3) {
                         let m = Motion::try_from_beta(s, base.beta()).unwrap();
-                        prop_assert!(rel(m.kinetic_energy(), t) <= 8.0, "from beta {:?}", base);
+                        prop_assert!(eps_apart(m.kinetic_energy(), t) <= 8.0, "from beta {:?}", base);
                     }
                 }
 
@@ -146,13 +138,13 @@ macro_rules! properties {
                     let m = Motion::try_from_kinetic_energy(s, F::from_f64(10f64.powf(x))).unwrap();
                     // gamma^2 - (beta gamma)^2 = 1 in the stable form gamma (1 - beta)(gamma + beta gamma).
                     let one = m.gamma() * m.one_minus_beta() * (m.gamma() + m.beta_gamma());
-                    prop_assert!(rel(one, F::ONE) <= 8.0, "{:?}", m);
+                    prop_assert!(eps_apart(one, F::ONE) <= 8.0, "{:?}", m);
                     // (gamma - 1)(gamma + 1) = (beta gamma)^2.
                     let lhs = m.gamma_minus_one() * (m.gamma() + F::ONE);
-                    prop_assert!(rel(lhs, m.beta_gamma() * m.beta_gamma()) <= 8.0);
+                    prop_assert!(eps_apart(lhs, m.beta_gamma() * m.beta_gamma()) <= 8.0);
                     // beta + (1 - beta) = 1 and beta gamma = beta * gamma.
-                    prop_assert!(rel(m.beta() + m.one_minus_beta(), F::ONE) <= 4.0);
-                    prop_assert!(rel(m.beta() * m.gamma(), m.beta_gamma()) <= 8.0);
+                    prop_assert!(eps_apart(m.beta() + m.one_minus_beta(), F::ONE) <= 4.0);
+                    prop_assert!(eps_apart(m.beta() * m.gamma(), m.beta_gamma()) <= 8.0);
                 }
 
                 #[test]

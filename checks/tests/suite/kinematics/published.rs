@@ -1,24 +1,20 @@
-//! The published check values of shared/reference/published-checks.md §2, §3 and §6, asserted in
+//! The worked examples, exact factors and precision traps of `checks/tests/reference/SOURCES.md`, asserted in
 //! both precisions.
 //!
 //! Sources, as named in that file: constants CODATA 2018 (Tiesinga et al., Rev. Mod. Phys. 93,
 //! 025010 (2021)) and the exact c and e of the SI 2019; derived values computed with mpmath at
 //! 50 digits from them; the relations are those of the PDG "Kinematics" review and Jackson 3rd
-//! ed. ch. 11-12 (from memory). The §6 traps were measured with IEEE single precision (numpy
+//! ed. ch. 11-12 (from memory). The precision traps were measured with IEEE single precision (numpy
 //! float32) against mpmath; here the naive formula is run again in f32 to show it still fails,
 //! beside ours.
 #![allow(clippy::float_cmp, clippy::unwrap_used)]
 // Published values are typed with all the digits their source prints.
 #![allow(clippy::excessive_precision, clippy::inconsistent_digit_grouping)]
 
+use crate::tolerance::eps_rel;
 use fourforce::{Error, Motion, Real, Species};
 
-/// Relative error in units of the format's epsilon, measured in f64.
-fn eps_err<T: Real>(got: T, want: f64) -> f64 {
-    ((got.to_f64() - want) / want).abs() / T::EPSILON.to_f64()
-}
-
-/// The carbon-12 ion stripped of all six electrons: 11174.864265448 MeV (published-checks §2:
+/// The carbon-12 ion stripped of all six electrons: 11174.864265448 MeV ([CODATA 2018], [NIST ASD]:
 /// CODATA 2018 m_u c^2 and m_e c^2, binding energy 1030.108 eV from the NIST Atomic Spectra
 /// Database, from memory), Q = 6.
 fn carbon6<T: Real>() -> Species<T> {
@@ -40,8 +36,8 @@ enum Q {
     CyclotronHzPerT,
 }
 
-/// (species name, kinetic energy in eV as an exact decimal, quantity, value): §3 of
-/// published-checks.md, mpmath 50 digits from CODATA 2018.
+/// (species name, kinetic energy in eV as an exact decimal, quantity, value): mpmath at 50
+/// digits from CODATA 2018 ([mpmath]).
 const ROWS: &[(&str, f64, Q, f64)] = &[
     ("e", 1.0, Q::GammaMinusOne, 1.9569511835591834e-6),
     ("e", 1.0, Q::Beta, 0.0019783555995256616),
@@ -148,7 +144,7 @@ fn published_rows<T: Real>() {
     for &(name, t_ev, q, want) in ROWS {
         let t = T::from_f64(t_ev);
         // Inputs not exact in the precision (7e12 and 1e14 in f32) start with up to 0.5 eps of
-        // error, and every quantity here has condition <= 2 in T (published-checks §3): 1 eps
+        // error, and every quantity here has condition <= 2 in T ([mpmath], CODATA 2018): 1 eps
         // more for them. Unit conversions (MeV, ns) add one rounding each: 0.5 eps, rounded up.
         let input_slack = if t.to_f64() == t_ev { 0.0 } else { 1.0 };
         let unit_slack = match q {
@@ -156,7 +152,7 @@ fn published_rows<T: Real>() {
             _ => 0.0,
         };
         let m = Motion::try_from_kinetic_energy(species::<T>(name), t).unwrap();
-        let err = eps_err(read(&m, q), want);
+        let err = eps_rel(read(&m, q), want);
         let bound = 8.0 + input_slack + unit_slack;
         assert!(
             err <= bound,
@@ -165,7 +161,7 @@ fn published_rows<T: Real>() {
         worst = worst.max(err);
     }
     println!(
-        "published-checks §3, {} digits: worst {worst:.2} eps",
+        "[mpmath], CODATA 2018, {} digits: worst {worst:.2} eps",
         T::MANTISSA_DIGITS
     );
 }
@@ -181,15 +177,15 @@ fn published_worked_examples_f64() {
 }
 
 fn seven_tev_total<T: Real>() {
-    // published-checks §3, mpmath from CODATA 2018: a proton of total energy 7 TeV.
+    // [mpmath] from CODATA 2018: a proton of total energy 7 TeV.
     let p = Motion::try_from_total_energy(Species::<T>::PROTON, T::from_f64(7.0e12)).unwrap();
     let slack = if T::MANTISSA_DIGITS == 24 { 1.0 } else { 0.0 }; // 7e12 rounds in f32
-    assert!(eps_err(p.gamma(), 7460.5224735261616) <= 8.0 + slack);
-    assert!(eps_err(p.momentum(), 6999999.9371175346e6) <= 8.0 + slack);
-    assert!(eps_err(p.try_magnetic_rigidity().unwrap(), 23349.486454117317) <= 8.0 + slack);
+    assert!(eps_rel(p.gamma(), 7460.5224735261616) <= 8.0 + slack);
+    assert!(eps_rel(p.momentum(), 6999999.9371175346e6) <= 8.0 + slack);
+    assert!(eps_rel(p.try_magnetic_rigidity().unwrap(), 23349.486454117317) <= 8.0 + slack);
     // A momentum of exactly 7 TeV/c: B rho = 23349.486663870643 T m.
     let q = Motion::try_from_momentum(Species::<T>::PROTON, T::from_f64(7.0e12)).unwrap();
-    assert!(eps_err(q.try_magnetic_rigidity().unwrap(), 23349.486663870643) <= 8.0 + slack);
+    assert!(eps_rel(q.try_magnetic_rigidity().unwrap(), 23349.486663870643) <= 8.0 + slack);
 }
 
 #[test]
@@ -199,13 +195,13 @@ fn seven_tev_proton_both_precisions() {
 }
 
 fn exact_factors<T: Real>() {
-    // published-checks §2: B rho per GeV/c at Q = 1 is 10^9/c = 3.3356409519815205 T m, and the
+    // [CODATA 2018], [NIST ASD]: B rho per GeV/c at Q = 1 is 10^9/c = 3.3356409519815205 T m, and the
     // light travel time 1/c = 3.3356409519815205 ns/m (exact from c, SI 2019).
     let brho = Motion::try_from_momentum(Species::<T>::PROTON, T::from_f64(1e9))
         .unwrap()
         .try_magnetic_rigidity()
         .unwrap();
-    assert!(eps_err(brho, 3.3356409519815205) <= 1.0);
+    assert!(eps_rel(brho, 3.3356409519815205) <= 1.0);
     // Non-relativistic limit of E rho: 2T/Q (common practice): a 1 eV proton has E rho = 2 V up
     // to the relativistic correction, relative T/(2m) = 5.3e-10.
     let e = Motion::try_from_kinetic_energy(Species::<T>::PROTON, T::ONE).unwrap();
@@ -220,7 +216,7 @@ fn exact_factors_both_precisions() {
 }
 
 fn at_rest_cyclotron<T: Real>() {
-    // published-checks §2, mpmath from CODATA 2018 (Jackson 3rd ed. §12.2, from memory):
+    // [mpmath] from CODATA 2018 (Jackson 3rd ed. §12.2, from memory):
     // cyclotron frequency per tesla at rest.
     let cases: [(Species<T>, f64); 5] = [
         (Species::ELECTRON, 2.79924898721e10),
@@ -244,82 +240,82 @@ fn cyclotron_at_rest_both_precisions() {
     at_rest_cyclotron::<f64>();
 }
 
-// ---- §6: precision traps, f32, inputs exact in f32, exact values from mpmath on the same f32
-// inputs (published-checks §6). Each case runs the naive formula in f32 to show the trap, then
+// ---- precision traps, f32, inputs exact in f32, exact values from mpmath on the same f32
+// inputs ([IEEE 754] single precision against [mpmath]). Each case runs the naive formula in f32 to show the trap, then
 // ours within 8 eps.
 
-const M_E: f32 = 510_998.94; // CODATA 2018 electron rest energy, rounded to f32 (published §1)
-const M_P: f32 = 938_272_064.0; // CODATA 2018 proton rest energy, rounded to f32 (published §1)
+const M_E: f32 = 510_998.94; // CODATA 2018 electron rest energy, rounded to f32 (CODATA 2018)
+const M_P: f32 = 938_272_064.0; // CODATA 2018 proton rest energy, rounded to f32 (CODATA 2018)
 
 #[test]
 fn trap_gamma_minus_one_of_1_ev_electron() {
     let naive = (1.0_f32 + M_E) / M_E - 1.0;
-    assert!(eps_err(naive, 1.956951179e-6) > 1e5); // 2.98e5 eps, published §6
+    assert!(eps_rel(naive, 1.956951179e-6) > 1e5); // 2.98e5 eps, [IEEE 754] single precision against [mpmath]
     let e = Motion::try_from_kinetic_energy(Species::<f32>::ELECTRON, 1.0).unwrap();
-    assert!(eps_err(e.gamma_minus_one(), 1.956951179e-6) <= 8.0);
+    assert!(eps_rel(e.gamma_minus_one(), 1.956951179e-6) <= 8.0);
 }
 
 #[test]
 fn trap_gamma_minus_one_of_1_kev_proton() {
     let naive = (1000.0_f32 + M_P) / M_P - 1.0;
-    assert!(eps_err(naive, 1.065788975e-6) > 1e4); // 5.58e4 eps, published §6
+    assert!(eps_rel(naive, 1.065788975e-6) > 1e4); // 5.58e4 eps, [IEEE 754] single precision against [mpmath]
     let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 1000.0).unwrap();
-    assert!(eps_err(p.gamma_minus_one(), 1.065788975e-6) <= 8.0);
+    assert!(eps_rel(p.gamma_minus_one(), 1.065788975e-6) <= 8.0);
 }
 
 #[test]
 fn trap_one_minus_beta_of_10_gev_electron_and_100_tev_proton() {
     let t = 1.0e10_f32;
     let pc = (t * (t + 2.0 * M_E)).sqrt();
-    assert_eq!(1.0 - pc / (t + M_E), 0.0); // published §6: naive gives 0
+    assert_eq!(1.0 - pc / (t + M_E), 0.0); // [IEEE 754] single precision against [mpmath]: naive gives 0
     let e = Motion::try_from_kinetic_energy(Species::<f32>::ELECTRON, t).unwrap();
-    assert!(eps_err(e.one_minus_beta(), 1.305466214e-9) <= 8.0);
-    // Lag behind light over 100 m, L/c (1 - beta)/beta: 4.354566569e-7 ns (published §6).
+    assert!(eps_rel(e.one_minus_beta(), 1.305466214e-9) <= 8.0);
+    // Lag behind light over 100 m, L/c (1 - beta)/beta: 4.354566569e-7 ns ([IEEE 754] single precision against [mpmath]).
     let lag_ns = 100.0 * e.one_minus_beta() / e.beta() * 1e9 / f32::SPEED_OF_LIGHT;
-    assert!(eps_err(lag_ns, 4.354566569e-7) <= 8.0);
+    assert!(eps_rel(lag_ns, 4.354566569e-7) <= 8.0);
 
-    // published §6, in MeV as measured there: naive beta = pc/E exceeds 1 for a 100 TeV proton.
+    // [IEEE 754] single precision against [mpmath], in MeV as measured there: naive beta = pc/E exceeds 1 for a 100 TeV proton.
     let (t_mev, m_mev) = (1.0e8_f32, 938.272_1_f32);
     let pc = (t_mev * (t_mev + 2.0 * m_mev)).sqrt();
     assert!(pc / (t_mev + m_mev) > 1.0);
     let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 1.0e14).unwrap();
     assert!(p.beta() <= 1.0);
-    assert!(eps_err(p.one_minus_beta(), 4.401689957e-11) <= 8.0);
+    assert!(eps_rel(p.one_minus_beta(), 4.401689957e-11) <= 8.0);
 }
 
 #[test]
 fn trap_beta_from_gamma_at_low_energy() {
-    // published §6: sqrt(1 - 1/gamma^2) of a 1 eV electron is 1.07e5 eps off in f32. Here the
+    // [IEEE 754] single precision against [mpmath]: sqrt(1 - 1/gamma^2) of a 1 eV electron is 1.07e5 eps off in f32. Here the
     // state is built from the exact gamma - 1 path (kinetic energy), and from beta gamma.
     let g = 1.0_f32 + 1.0 / M_E;
     let naive = (1.0 - 1.0 / (g * g)).sqrt();
-    assert!(eps_err(naive, 0.001978355597) > 1e4);
+    assert!(eps_rel(naive, 0.001978355597) > 1e4);
     let e = Motion::try_from_kinetic_energy(Species::<f32>::ELECTRON, 1.0).unwrap();
-    assert!(eps_err(e.beta(), 0.001978355597) <= 8.0);
+    assert!(eps_rel(e.beta(), 0.001978355597) <= 8.0);
 }
 
 #[test]
 fn trap_momentum_and_back_at_low_energy() {
-    // published §6: pc of a 1 eV electron, naive sqrt(E^2 - m^2) is 8.6e4 eps off; T from pc,
+    // [IEEE 754] single precision against [mpmath]: pc of a 1 eV electron, naive sqrt(E^2 - m^2) is 8.6e4 eps off; T from pc,
     // naive sqrt(pc^2 + m^2) - m is 3.9e5 eps off.
     let (t, e_tot) = (1.0_f32, 1.0_f32 + M_E);
     let naive_pc = (e_tot * e_tot - M_E * M_E).sqrt();
-    assert!(eps_err(naive_pc, 1010.939611) > 1e4);
+    assert!(eps_rel(naive_pc, 1010.939611) > 1e4);
     let e = Motion::try_from_kinetic_energy(Species::<f32>::ELECTRON, t).unwrap();
-    assert!(eps_err(e.momentum(), 1010.939611) <= 8.0);
+    assert!(eps_rel(e.momentum(), 1010.939611) <= 8.0);
     // As measured there, in MeV: pc = 0.0010109395952895284 MeV (the f32 pc of a 1 eV electron).
     let (pc_mev, m_mev) = (0.001_010_939_6_f32, 0.510_998_95_f32);
     let naive_t = (pc_mev * pc_mev + m_mev * m_mev).sqrt() - m_mev;
-    assert!(eps_err(naive_t, 0.9999999975e-6) > 1e4);
+    assert!(eps_rel(naive_t, 0.9999999975e-6) > 1e4);
     let pc = 1010.939_6_f32;
     let back = Motion::try_from_momentum(Species::<f32>::ELECTRON, pc).unwrap();
-    // Exact T for this f32 pc (mpmath on the f32 inputs), published §6: 9.999999975e-7 MeV.
-    assert!(eps_err(back.kinetic_energy(), 0.9999999975) <= 8.0);
+    // Exact T for this f32 pc (mpmath on the f32 inputs), [IEEE 754] single precision against [mpmath]: 9.999999975e-7 MeV.
+    assert!(eps_rel(back.kinetic_energy(), 0.9999999975) <= 8.0);
 }
 
 #[test]
 fn trap_gamma_from_speed_near_c() {
-    // published §6: v = 299762464 and 299792160 m/s (exact in f32); exact gamma 70.69505278 and
+    // [IEEE 754] single precision against [mpmath]: v = 299762464 and 299792160 m/s (exact in f32); exact gamma 70.69505278 and
     // 709.2303786 (mpmath); naive f32 1/sqrt(1 - v^2/c^2) gives 70.70481 and 724.0773.
     for (v, want) in [
         (299_762_464.0_f32, 70.69505278),
@@ -327,16 +323,16 @@ fn trap_gamma_from_speed_near_c() {
     ] {
         let c = f32::SPEED_OF_LIGHT;
         let naive = 1.0 / (1.0 - v * v / (c * c)).sqrt();
-        assert!(eps_err(naive, want) > 1e3);
+        assert!(eps_rel(naive, want) > 1e3);
         let e = Motion::try_from_speed(Species::<f32>::ELECTRON, v).unwrap();
-        assert!(eps_err(e.gamma(), want) <= 8.0, "{} vs {want}", e.gamma());
+        assert!(eps_rel(e.gamma(), want) <= 8.0, "{} vs {want}", e.gamma());
     }
     // gamma - 1 from speed, electron 1 eV: 1.956951015e-6 for v = 593096.0880 (exact f32 input).
     let v = 593_096.1_f32;
     let e = Motion::try_from_speed(Species::<f32>::ELECTRON, v).unwrap();
     let b = f64::from(v) / 299_792_458.0;
     let want = 1.0 / (1.0 - b * b).sqrt() - 1.0; // f64 is ample here (condition 1 in b)
-    assert!(eps_err(e.gamma_minus_one(), want) <= 8.0);
+    assert!(eps_rel(e.gamma_minus_one(), want) <= 8.0);
 }
 
 #[test]

@@ -1,21 +1,18 @@
 //! The steering step in closed loop against the beam line it models, its limits and its errors.
 //!
 //! The closed loop uses this crate's beam line (thin corrector + drift, validated against the
-//! published rigidities in motion_beamline.rs) as the machine. Convergence as (1 - g)^k for
+//! published rigidities in beamline.rs) as the machine. Convergence as (1 - g)^k for
 //! a correct model is the textbook property of a proportional loop on a linear plant (common
 //! practice).
 #![allow(clippy::float_cmp)]
 // Reference values are typed with all their published digits.
 #![allow(clippy::excessive_precision)]
 
+use crate::tolerance::t;
 use fourforce::beamline::{BeamLine, BeamState, Element, KickDirection};
 use fourforce::steer::SteeringSetup;
 use fourforce::{Error, Motion, Real, Species};
 use proptest::prelude::*;
-
-fn t<T: Real>(x: f64) -> T {
-    T::from_f64(x)
-}
 
 /// The machine: an incoming offset and slope, a corrector, a drift of `true_drift` to the monitor.
 fn monitor_reading<T: Real>(beam: Motion<T>, x0: T, slope0: T, setting: T, true_drift: T) -> T {
@@ -175,4 +172,51 @@ proptest! {
         prop_assert!(cmd.change().abs() <= max_change * (1.0 + 2.0 * f32::EPSILON) + max_field * f32::EPSILON);
         prop_assert!(cmd.setting().is_finite() && cmd.change().is_finite());
     }
+}
+
+mod mutants {
+    //! Sharper tests that kill mutants cargo-mutants found surviving: each pins a result a wrong
+    //! operator or a constant return would change; values exact in both precisions.
+    #![allow(clippy::float_cmp)]
+
+    use fourforce::Species;
+    /// Pushers and their particle: each input refused on its own, the velocity, the compensated
+    /// time, the overflow of a half step, and the factors' own edges.
+    macro_rules! sharper_push {
+        ($t:ident, $name:ident) => {
+            mod $name {
+                use super::*;
+                use fourforce::Error;
+
+                #[test]
+                fn steering_limits_of_zero_are_allowed_and_negative_ones_refused() {
+                    use fourforce::steer::SteeringSetup;
+                    assert!(SteeringSetup::<$t>::try_new(1.0, 0.5, 0.0, 0.0).is_ok());
+                    assert_eq!(
+                        SteeringSetup::<$t>::try_new(1.0, 0.5, 1.0, -1.0).err(),
+                        Some(Error::NegativeMagnitude)
+                    );
+                    assert_eq!(
+                        SteeringSetup::<$t>::try_new(1.0, 0.5, -1.0, 1.0).err(),
+                        Some(Error::NegativeMagnitude)
+                    );
+                }
+
+                /// A small correction within the rate limit is not reported as rate-limited.
+                #[test]
+                fn small_steering_change_is_not_rate_limited() {
+                    use fourforce::Motion;
+                    use fourforce::steer::SteeringSetup;
+                    let setup = SteeringSetup::<$t>::try_new(1.0, 0.5, 1.0, 1.0).unwrap();
+                    let p = Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6).unwrap();
+                    let cmd = setup.try_next_setting(&p, 1.0e-3, 0.0, 0.0).unwrap();
+                    assert!(!cmd.rate_limited() && !cmd.saturated());
+                    assert!(cmd.setting() != 0.0);
+                }
+            }
+        };
+    }
+
+    sharper_push!(f32, push_f32);
+    sharper_push!(f64, push_f64);
 }

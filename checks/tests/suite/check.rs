@@ -1,35 +1,26 @@
 //! Plausibility checks and the moving window.
 //!
-//! Reference energies: shared/reference/published-checks.md §3 ([mp]: mpmath at 50 digits from
+//! Reference energies: [mpmath] (mpmath at 50 digits from
 //! CODATA 2018). The window statistics are checked against a two-pass computation in f64 (the
 //! textbook definition), and their stability against a large offset.
 #![allow(clippy::float_cmp)]
 // Reference values are typed with all their published digits.
 #![allow(clippy::excessive_precision)]
 
+use crate::tolerance::{C, eps, t};
 use fourforce::check::{EnergyWindow, MovingWindow, Trend, Verdict};
 use fourforce::{Error, Real, Species};
 use proptest::prelude::*;
 
-fn t<T: Real>(x: f64) -> T {
-    T::from_f64(x)
-}
-
-fn eps<T: Real>() -> f64 {
-    T::EPSILON.to_f64()
-}
-
-const C: f64 = 299_792_458.0; // SI 2019, exact
-
 fn flight_time_gives_energy<T: Real>() {
-    // alpha 5 MeV: beta = 0.051744192122256112 (published-checks §3 [mp]); 1.5 m baseline.
+    // alpha 5 MeV: beta = 0.051744192122256112 ([mpmath] from CODATA 2018); 1.5 m baseline.
     let tof = 1.5 / (0.051744192122256112 * C);
     let w = EnergyWindow::try_around(Species::<T>::ALPHA, t(5e6), t(0.01)).unwrap();
     let v = w.check_flight_time(t(1.5), t(tof));
     let e = (v.kinetic_energy().unwrap().to_f64() / 5e6 - 1.0).abs();
     // condition 2 (T ~ 1/t^2) on an input rounded once, plus the formula: 16 eps
     assert!(v.is_inside() && e < 16.0 * eps::<T>(), "{v:?} {e:e}");
-    // proton 1 GeV: 3.8120493548822230 ns/m (§3 [mp]); condition gamma^3 beta^2/(gamma - 1) = 6.3
+    // proton 1 GeV: 3.8120493548822230 ns/m ([mpmath], CODATA 2018); condition gamma^3 beta^2/(gamma - 1) = 6.3
     let w = EnergyWindow::try_around(Species::<T>::PROTON, t(1e9), t(1e-3)).unwrap();
     let v = w.check_flight_time(t(10.0), t(38.120493548822230e-9));
     let e = (v.kinetic_energy().unwrap().to_f64() / 1e9 - 1.0).abs();
@@ -57,7 +48,7 @@ fn flight_time_gives_energy<T: Real>() {
 }
 
 fn centring_field_gives_energy<T: Real>() {
-    // proton 250 MeV: B rho = 2.4321284387255044 T m (published-checks §3 [mp]); rho = 2 m.
+    // proton 250 MeV: B rho = 2.4321284387255044 T m ([mpmath] from CODATA 2018); rho = 2 m.
     let w = EnergyWindow::try_around(Species::<T>::PROTON, t(250e6), t(0.002)).unwrap();
     let v = w.check_centring_field(t(2.4321284387255044 / 2.0), t(2.0));
     let e = (v.kinetic_energy().unwrap().to_f64() / 250e6 - 1.0).abs();
@@ -259,5 +250,185 @@ proptest! {
         let inside = (9.0e6..=11.0e6).contains(&t_ev);
         prop_assert_eq!(v.is_inside(), inside);
         prop_assert_eq!(v.kinetic_energy(), Some(t_ev));
+    }
+}
+
+mod regressions {
+    //! Regressions: bugs that fuzzing, the f32 sweep and mutation testing found, each with the
+    //! input that exposed it.
+    #![allow(clippy::float_cmp)]
+
+    use fourforce::Error;
+    /// Found by the `check` fuzz target: readings near `f32::MAX` overflowed the window's sums, and
+    /// the statistics came back as `Ok`: readings (3e38, 3e38, -3e38, 1, 2) gave mean +inf, spread
+    /// +inf, drift NaN and trend `Steady` (a corrupted register read as a steady beam); readings
+    /// (-4.2505569e37, 3.5e-43, 0) gave spread +inf. All are `Overflow` now.
+    #[test]
+    fn window_statistics_that_overflow_are_refused() {
+        use fourforce::check::MovingWindow;
+        let mut w = MovingWindow::<f32, 5>::new();
+        for x in [3.0e38_f32, 3.0e38, -3.0e38, 1.0, 2.0] {
+            w.try_push(x).unwrap();
+        }
+        assert_eq!(w.try_mean(), Err(Error::Overflow));
+        assert_eq!(w.try_spread(), Err(Error::Overflow));
+        assert_eq!(w.try_drift(), Err(Error::Overflow));
+        assert_eq!(w.try_trend(1.0), Err(Error::Overflow));
+        let mut w = MovingWindow::<f32, 5>::new();
+        for x in [-4.250_557e37_f32, 3.5e-43, 0.0] {
+            w.try_push(x).unwrap();
+        }
+        assert_eq!(w.try_spread(), Err(Error::Overflow));
+        // Ordinary readings are untouched.
+        let mut w = MovingWindow::<f32, 4>::new();
+        for x in [1.0_f32, 2.0, 6.0] {
+            w.try_push(x).unwrap();
+        }
+        assert_eq!(w.try_mean(), Ok(3.0));
+    }
+    /// Found by the `check` fuzz target: an `EnergyWindow` around a subnormal nominal energy gave
+    /// verdicts with a deviation of +inf (f32 nominal 1e-40 eV, reading 1 eV), and
+    /// `EnergyWindow::try_around(3e38, 0.5)` said `NonFinite` where `nominal (1 + tol)` overflows.
+    #[test]
+    fn energy_window_edges_are_finite_or_overflow() {
+        use fourforce::Species;
+        use fourforce::check::{EnergyWindow, Verdict};
+        let w = EnergyWindow::try_new(Species::<f32>::PROTON, 0.0, 1.0e-40, 2.0e-40).unwrap();
+        match w.check_kinetic_energy(1.0) {
+            Verdict::High { deviation, .. } => assert_eq!(deviation, f32::MAX),
+            other => panic!("{other:?}"),
+        }
+        assert_eq!(
+            EnergyWindow::try_around(Species::<f32>::PROTON, 3.0e38, 0.5),
+            Err(Error::Overflow)
+        );
+        assert!(EnergyWindow::try_around(Species::<f32>::PROTON, 2.0e38, 0.5).is_ok());
+    }
+}
+
+mod mutants {
+    //! Sharper tests that kill mutants cargo-mutants found surviving: each pins a result a wrong
+    //! operator or a constant return would change; values exact in both precisions.
+    #![allow(clippy::float_cmp)]
+
+    use fourforce::Species;
+    /// Survivors of the full run of 2026-12-02 (`ci/mutants`), one test per mutant or group.
+    macro_rules! sharper_edges {
+        ($t:ident, $name:ident) => {
+            mod $name {
+                use super::*;
+                use fourforce::Error;
+
+                /// The energy window: its bounds, its ordering rule, and a reading of exactly 0 eV
+                /// (possible: a particle at rest), with the deviation each verdict carries.
+                #[test]
+                fn energy_window_bounds_and_verdicts() {
+                    use fourforce::check::{EnergyWindow, Verdict};
+                    let p = Species::<$t>::PROTON;
+                    let w = EnergyWindow::try_around(p, 100.0, 0.25).unwrap();
+                    assert_eq!((w.low(), w.nominal(), w.high()), (75.0, 100.0, 125.0));
+                    assert_eq!(
+                        EnergyWindow::try_new(p, 3.0, 2.0, 4.0),
+                        Err(Error::InvalidRange)
+                    );
+                    assert_eq!(
+                        EnergyWindow::try_new(p, 1.0, 5.0, 4.0),
+                        Err(Error::InvalidRange)
+                    );
+                    let from_zero = EnergyWindow::try_new(p, 0.0, 1.0, 2.0).unwrap();
+                    assert_eq!(
+                        from_zero.check_kinetic_energy(0.0),
+                        Verdict::Inside {
+                            kinetic_energy_ev: 0.0,
+                            deviation: -1.0
+                        }
+                    );
+                    assert_eq!(from_zero.check_kinetic_energy(0.0).deviation(), Some(-1.0));
+                    assert_eq!(from_zero.check_kinetic_energy(4.0).deviation(), Some(3.0));
+                    assert_eq!(from_zero.check_kinetic_energy(-1.0).deviation(), None);
+                }
+            }
+        };
+    }
+
+    sharper_edges!(f32, edges_f32);
+    sharper_edges!(f64, edges_f64);
+    /// Every N readings the moving window recomputes its sums from the values it holds, so after
+    /// each full cycle its statistics are exactly those of a fresh window fed the same N values,
+    /// however long it has run.
+    #[test]
+    fn moving_window_resynchronises_every_cycle() {
+        use fourforce::check::MovingWindow;
+        const N: usize = 5;
+        let reading = |i: u32| 1.0e4_f32 + ((i * 7919) % 1000) as f32 * 0.37;
+        let mut long = MovingWindow::<f32, N>::new();
+        for i in 0..(7 * N as u32) {
+            long.try_push(reading(i)).unwrap();
+            if (i as usize + 1) % N == 0 {
+                let mut fresh = MovingWindow::<f32, N>::new();
+                for j in (i + 1 - N as u32)..=i {
+                    fresh.try_push(reading(j)).unwrap();
+                }
+                assert_eq!(
+                    long.try_mean(),
+                    fresh.try_mean(),
+                    "after {} readings",
+                    i + 1
+                );
+                assert_eq!(
+                    long.try_spread(),
+                    fresh.try_spread(),
+                    "after {} readings",
+                    i + 1
+                );
+            }
+        }
+    }
+    /// Pushers and their particle: each input refused on its own, the velocity, the compensated
+    /// time, the overflow of a half step, and the factors' own edges.
+    macro_rules! sharper_push {
+        ($t:ident, $name:ident) => {
+            mod $name {
+
+                /// A trend exactly at the threshold is steady; a threshold of 0 is allowed.
+                #[test]
+                fn trend_thresholds_are_inclusive() {
+                    use fourforce::check::{MovingWindow, Trend};
+                    let mut up = MovingWindow::<$t, 4>::new();
+                    let mut down = MovingWindow::<$t, 4>::new();
+                    for x in [1.0, 2.0, 3.0, 4.0] {
+                        up.try_push(x).unwrap();
+                        down.try_push(-x).unwrap();
+                    }
+                    let d = up.try_drift().unwrap();
+                    assert!(d > 0.0);
+                    assert_eq!(down.try_drift(), Ok(-d));
+                    assert_eq!(up.try_trend(d), Ok(Trend::Steady));
+                    assert_eq!(up.try_trend(d * 0.5), Ok(Trend::Rising));
+                    assert_eq!(down.try_trend(d), Ok(Trend::Steady));
+                    assert_eq!(down.try_trend(d * 0.5), Ok(Trend::Falling));
+                    assert_eq!(up.try_trend(0.0), Ok(Trend::Rising));
+                    let mut flat = MovingWindow::<$t, 4>::new();
+                    for _ in 0..4 {
+                        flat.try_push(7.0).unwrap();
+                    }
+                    assert_eq!(flat.try_trend(0.0), Ok(Trend::Steady));
+                }
+            }
+        };
+    }
+
+    sharper_push!(f32, push_f32);
+    sharper_push!(f64, push_f64);
+    /// The slope subtracts the mean before it multiplies: readings 1e7 + (0, 2, 4, 6) in f32 give a
+    /// slope of exactly 2 (every intermediate exact), where adding the mean would round at 2e7.
+    #[test]
+    fn f32_slope_of_offset_readings_is_exact() {
+        use fourforce::check::MovingWindow;
+        let mut w = MovingWindow::<f32, 4>::new();
+        for x in [0.0, 2.0, 4.0, 6.0] {
+            w.try_push(1.0e7 + x).unwrap();
+        }
+        assert_eq!(w.try_slope(), Ok(2.0));
     }
 }
