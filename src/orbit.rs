@@ -40,13 +40,15 @@
 //! acted.
 //!
 //! # Failed monitors
-//! A reading that is not finite, lies outside the monitor's range, or is stuck (the same value in
-//! `N` consecutive iterations while correctors that move it changed, detected with the `check`
-//! module's [`MovingWindow`]) removes the monitor from the next solve and the decomposition is
-//! computed again; [`Outcome::monitor_in_use`] reports the set. A dropped monitor stays out until
-//! [`Orbit::restore_monitor`]. When the monitors left cannot determine the correctors (fewer
-//! independent readings than correctors in a plane), the step is [`State::Hold`]: no corrector
-//! moves, never a wild correction.
+//! A reading that is not finite, lies outside the monitor's range, or is stuck (exactly the same
+//! value in `N` consecutive iterations while correctors that move it changed in each of them: a
+//! run-length count per reading, a compare and an add per iteration, where a moving window with
+//! its spread cost the chip 17 times as much) removes the monitor from the next solve and the
+//! decomposition is computed again; [`Outcome::monitor_in_use`] reports the set. A dropped
+//! monitor stays out until [`Orbit::restore_monitor`]. When the monitors left cannot determine
+//! the correctors (fewer independent readings than correctors in a plane: singular values at the
+//! rounding level `16 ε √rows σ_max`), the step is [`State::Hold`]: no corrector moves, never a
+//! wild correction. (The cutoff only truncates the solution; it never makes a plane hold.)
 //!
 //! # Energy
 //! A new beam energy changes every `κ_j` and, through the focusing, `R`. [`Orbit::try_set_response`]
@@ -80,7 +82,6 @@
 //! ```
 
 use crate::beamline::KickDirection;
-use crate::check::MovingWindow;
 use crate::svd;
 use crate::transfer::TransferMap;
 use crate::{Error, Motion, Real, optics, try_finite};
@@ -219,12 +220,33 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
     where
         I: IntoIterator<Item = (TransferMap<T>, Place<T>)>,
     {
-        let mut per_kick = [[[T::ZERO; M]; 2]; C];
-        let mut kick_per_setting = [T::ZERO; C];
+        let mut response = Self::ZERO;
+        response.try_fill(places)?;
+        Ok(response)
+    }
+
+    /// Every entry zero (no corrector moves any reading; every `κ` zero): the state of an
+    /// [`Orbit::new`] before a response is loaded.
+    const ZERO: Self = Self {
+        per_kick: [[[T::ZERO; M]; 2]; C],
+        kick_per_setting: [T::ZERO; C],
+    };
+
+    /// [`try_from_places`](Self::try_from_places) in place (no copy of the response on the
+    /// stack); on an error the entries are partly written.
+    fn try_fill<I>(&mut self, places: I) -> Result<(), Error>
+    where
+        I: IntoIterator<Item = (TransferMap<T>, Place<T>)>,
+    {
+        *self = Self::ZERO;
+        let Self {
+            per_kick,
+            kick_per_setting,
+        } = self;
         // One pass: the rays of the correctors met so far, carried through each map.
         let mut rays = [[T::ZERO; 6]; C];
-        let mut seen_monitors = 0_u64;
-        let mut seen_correctors = 0_u64;
+        let mut seen_monitors = 0_u32;
+        let mut seen_correctors = 0_u32;
         for (map, place) in places {
             for (j, ray) in rays.iter_mut().enumerate() {
                 if bit(seen_correctors, j) {
@@ -233,7 +255,7 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
             }
             match place {
                 Place::Monitor(i) => {
-                    if i >= M.min(64) || bit(seen_monitors, i) {
+                    if i >= M.min(32) || bit(seen_monitors, i) {
                         return Err(Error::OutOfBounds);
                     }
                     seen_monitors |= 1 << i;
@@ -254,7 +276,7 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
                     direction,
                     motion,
                 } => {
-                    if index >= C.min(64) || bit(seen_correctors, index) {
+                    if index >= C.min(32) || bit(seen_correctors, index) {
                         return Err(Error::OutOfBounds);
                     }
                     seen_correctors |= 1 << index;
@@ -284,14 +306,11 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
                 }
             }
         }
-        let all = |n: usize| if n >= 64 { u64::MAX } else { (1_u64 << n) - 1 };
+        let all = |n: usize| if n >= 32 { u32::MAX } else { (1_u32 << n) - 1 };
         if seen_monitors != all(M) || seen_correctors != all(C) {
             return Err(Error::OutOfBounds);
         }
-        Ok(Self {
-            per_kick,
-            kick_per_setting,
-        })
+        Ok(())
     }
 
     /// The change of monitor `monitor`'s reading in plane `plane` (0 = x, 1 = y) per unit of
@@ -667,9 +686,9 @@ pub enum State {
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Outcome {
     state: State,
-    saturated: u64,
-    rate_limited: u64,
-    in_use: u64,
+    saturated: u32,
+    rate_limited: u32,
+    in_use: u32,
     decomposed: bool,
 }
 
@@ -700,7 +719,7 @@ impl Outcome {
     /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
     /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// let out = orbit.try_step(&[[0.5, 0.0]], &mut [0.0])?;
-    /// assert!(!out.saturated(0) && !out.saturated(64));
+    /// assert!(!out.saturated(0) && !out.saturated(32));
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
@@ -794,8 +813,21 @@ impl Outcome {
     }
 }
 
-const fn bit(mask: u64, i: usize) -> bool {
-    i < 64 && mask & (1 << i) != 0
+/// `x` brought into `[lo, hi]` by comparisons (finite inputs; libm's `fminf`/`fmaxf` are calls
+/// on a chip, and this is on the path of every iteration).
+#[inline]
+fn clamp<T: Real>(x: T, lo: T, hi: T) -> T {
+    if x < lo {
+        lo
+    } else if x > hi {
+        hi
+    } else {
+        x
+    }
+}
+
+const fn bit(mask: u32, i: usize) -> bool {
+    i < 32 && mask & (1 << i) != 0
 }
 
 /// One corrector's column: the readings of both planes, x then y (2M values).
@@ -823,21 +855,22 @@ struct Gains<T: Real, const M: usize, const C: usize> {
     /// Which readings corrector `j`'s row uses (so the product skips a plane of zeros).
     plane: [Plane; C],
     /// The correctors this was computed for (bit j), or `None` when stale.
-    free: Option<u64>,
-    hold: Option<State>,
+    free: Option<u32>,
+    /// `Correcting`, or the hold the decomposition found (all-zero bits: `Correcting`).
+    hold: State,
 }
 
 impl<T: Real, const M: usize, const C: usize> Gains<T, M, C> {
     const STALE: Self = Self {
         gain: [Column([[T::ZERO; M]; 2]); C],
-        plane: [Plane::Both; C],
+        plane: [Plane::X; C],
         free: None,
-        hold: None,
+        hold: State::Correcting,
     };
 }
 
 /// The steering loop of a line with `M` monitors (each reading x and y) and `C` correctors
-/// (`M, C ≤ 64`), keeping `N` readings per monitor and plane to recognise a stuck one.
+/// (`M, C ≤ 32`), keeping `N` readings per monitor and plane to recognise a stuck one.
 ///
 /// Holds the response, the limits, the state of the monitors and the decompositions; no heap.
 /// Its size is about `(5 · 2M · C + C²) · size_of::<T>()` plus the windows: place it in a
@@ -861,25 +894,127 @@ pub struct Orbit<T: Real, const M: usize, const C: usize, const N: usize = 4> {
     correctors: [Corrector<T>; C],
     tuning: Tuning<T>,
     /// Monitors in use (bit i).
-    in_use: u64,
-    windows: [[MovingWindow<T, N>; M]; 2],
-    /// Consecutive iterations in which a corrector that moves reading (p, i) changed.
-    moved: [[u16; M]; 2],
+    in_use: u32,
+    /// The last reading of (p, i), and how many consecutive iterations it has been the same.
+    last: [[T; 2]; M],
+    runs: [[u16; 2]; M],
+    /// The correctors that changed in each of the last iterations (bit j), a ring of `N`, and how
+    /// many iterations it holds.
+    recent: [u32; N],
+    recent_next: usize,
+    recent_len: usize,
     /// Correctors that move reading (p, i) (bit j).
-    reach: [[u64; M]; 2],
+    reach: [[u32; 2]; M],
     full: Gains<T, M, C>,
     restricted: Gains<T, M, C>,
     work: [Column<T, M>; C],
     v: [[T; C]; C],
     s: [T; C],
+    /// Monitors, correctors and tuning set, and a response loaded.
+    configured: bool,
+    loaded: bool,
+}
+
+impl<T: Real, const M: usize, const C: usize, const N: usize> Default for Orbit<T, M, C, N> {
+    fn default() -> Self {
+        Self::new()
+    }
 }
 
 impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> {
-    /// A loop for the line described by `response`, with its monitors, correctors and tuning.
-    /// Every monitor starts in use; the first [`try_step`](Self::try_step) decomposes.
+    /// A loop with nothing set yet, every byte zero: as a `static` initialiser it costs no flash
+    /// and no stack (the way to hold a loop on a chip with a small stack). Then
+    /// [`try_configure`](Self::try_configure) and [`try_set_places`](Self::try_set_places) (or
+    /// [`try_set_response`](Self::try_set_response)); until both, a step is
+    /// [`Error::Empty`]. [`try_new`](Self::try_new) does all three at once.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, orbit::{Corrector, Monitor, Orbit, Response, Tuning}};
+    /// static mut UNUSED: Orbit<f32, 8, 12> = Orbit::new();
+    /// let mut orbit = Orbit::<f64, 1, 1>::new();
+    /// assert_eq!(orbit.try_step(&[[0.0, 0.0]], &mut [0.0]), Err(Error::Empty));
+    /// orbit.try_configure([Monitor::try_new(1.0, 1.0)?], [Corrector::try_new(-1.0, 1.0, 1.0)?], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// orbit.try_set_response(&Response::try_new([[[1.0], [0.0]]], [1.0])?, &mut [0.0])?;
+    /// assert!(orbit.try_step(&[[0.0, 0.0]], &mut [0.0]).is_ok());
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn new() -> Self {
+        Self {
+            response: Response::ZERO,
+            monitors: [Monitor {
+                range_m: T::ZERO,
+                weight: T::ZERO,
+            }; M],
+            correctors: [Corrector {
+                min: T::ZERO,
+                max: T::ZERO,
+                max_step: T::ZERO,
+            }; C],
+            tuning: Tuning {
+                gain: T::ZERO,
+                regularisation: T::ZERO,
+                cutoff: T::ZERO,
+            },
+            in_use: 0,
+            last: [[T::ZERO; 2]; M],
+            runs: [[0; 2]; M],
+            recent: [0; N],
+            recent_next: 0,
+            recent_len: 0,
+            reach: [[0; 2]; M],
+            full: Gains::STALE,
+            restricted: Gains::STALE,
+            work: [Column([[T::ZERO; M]; 2]); C],
+            v: [[T::ZERO; C]; C],
+            s: [T::ZERO; C],
+            configured: false,
+            loaded: false,
+        }
+    }
+
+    /// Sets the monitors, correctors and tuning; every monitor in use, the windows empty.
     ///
     /// # Errors
-    /// [`Error::CapacityFull`] for more than 64 monitors or correctors, or `N` outside
+    /// [`Error::CapacityFull`] for more than 32 monitors or correctors, or `N` outside
+    /// `2..=65535`; nothing changes then.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Error, orbit::{Corrector, Monitor, Orbit, Tuning}};
+    /// let mut orbit = Orbit::<f32, 1, 1, 1>::new(); // N = 1 cannot see a stuck value
+    /// let (m, c, t) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?, Tuning::try_new(1.0, 0.0, 0.0)?);
+    /// assert_eq!(orbit.try_configure([m], [c], t), Err(Error::CapacityFull));
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_configure(
+        &mut self,
+        monitors: [Monitor<T>; M],
+        correctors: [Corrector<T>; C],
+        tuning: Tuning<T>,
+    ) -> Result<(), Error> {
+        if M > 32 || C > 32 || !(2..=usize::from(u16::MAX)).contains(&N) {
+            return Err(Error::CapacityFull);
+        }
+        self.monitors = monitors;
+        self.correctors = correctors;
+        self.tuning = tuning;
+        self.in_use = if M == 32 { u32::MAX } else { (1 << M) - 1 };
+        self.runs = [[0; 2]; M];
+        self.recent_len = 0;
+        self.configured = true;
+        self.invalidate();
+        Ok(())
+    }
+
+    /// A loop for the line described by `response`, with its monitors, correctors and tuning:
+    /// [`new`](Self::new), [`try_configure`](Self::try_configure) and the response at once, by
+    /// value (on a small stack use those in a `static`). Every monitor starts in use; the first
+    /// [`try_step`](Self::try_step) decomposes.
+    ///
+    /// # Errors
+    /// [`Error::CapacityFull`] for more than 32 monitors or correctors, or `N` outside
     /// `2..=65535`.
     ///
     /// # Examples
@@ -896,24 +1031,13 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         correctors: [Corrector<T>; C],
         tuning: Tuning<T>,
     ) -> Result<Self, Error> {
-        if M > 64 || C > 64 || !(2..=usize::from(u16::MAX)).contains(&N) {
+        if M > 32 || C > 32 || !(2..=usize::from(u16::MAX)).contains(&N) {
             return Err(Error::CapacityFull);
         }
-        let mut orbit = Self {
-            response,
-            monitors,
-            correctors,
-            tuning,
-            in_use: if M == 64 { u64::MAX } else { (1 << M) - 1 },
-            windows: [[MovingWindow::new(); M]; 2],
-            moved: [[0; M]; 2],
-            reach: [[0; M]; 2],
-            full: Gains::STALE,
-            restricted: Gains::STALE,
-            work: [Column([[T::ZERO; M]; 2]); C],
-            v: [[T::ZERO; C]; C],
-            s: [T::ZERO; C],
-        };
+        let mut orbit = Self::new();
+        orbit.try_configure(monitors, correctors, tuning)?;
+        orbit.response = response;
+        orbit.loaded = true;
         orbit.set_reach();
         Ok(orbit)
     }
@@ -1009,13 +1133,8 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     pub fn restore_monitor(&mut self, i: usize) {
         if i < M && !bit(self.in_use, i) {
             self.in_use |= 1 << i;
-            for p in 0..2 {
-                if let Some(w) = self.windows.get_mut(p).and_then(|w| w.get_mut(i)) {
-                    w.clear();
-                }
-                if let Some(m) = self.moved.get_mut(p).and_then(|m| m.get_mut(i)) {
-                    *m = 0;
-                }
+            if let Some(r) = self.runs.get_mut(i) {
+                *r = [0, 0];
             }
             self.invalidate();
         }
@@ -1037,38 +1156,124 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
     /// let mut orbit = Orbit::<f64, 1, 1>::try_new(at_1, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// let mut s = [0.3];
-    /// assert_eq!(orbit.try_set_response(at_2, &mut s)?, 0);
+    /// assert_eq!(orbit.try_set_response(&at_2, &mut s)?, 0);
     /// assert_eq!(s, [0.6]);
     /// let mut s = [0.7];
-    /// assert_eq!(orbit.try_set_response(at_1, &mut s)?, 0); // back: 0.35
-    /// assert_eq!(orbit.try_set_response(at_2, &mut [0.7])?, 1); // 1.4 is beyond the range
+    /// assert_eq!(orbit.try_set_response(&at_1, &mut s)?, 0); // back: 0.35
+    /// assert_eq!(orbit.try_set_response(&at_2, &mut [0.7])?, 1); // 1.4 is beyond the range
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_set_response(
         &mut self,
-        response: Response<T, M, C>,
+        response: &Response<T, M, C>,
         settings: &mut [T; C],
-    ) -> Result<u64, Error> {
+    ) -> Result<u32, Error> {
+        let next = if self.loaded {
+            self.rescaled(
+                &self.response.kick_per_setting,
+                &response.kick_per_setting,
+                settings,
+            )?
+        } else {
+            self.clamped(settings)?
+        };
+        self.response = *response;
+        Ok(self.loaded_with(next, settings))
+    }
+
+    /// As [`try_set_response`](Self::try_set_response), the response computed in place from the
+    /// line's places (see [`Response::try_from_places`]): on a chip, nothing of the size of the
+    /// response lands on the stack.
+    ///
+    /// # Errors
+    /// As [`Response::try_from_places`] and [`try_set_response`](Self::try_set_response). After
+    /// an error in the places the loop has no response (a step is [`Error::Empty`]) and the set
+    /// points are unchanged.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::beamline::KickDirection;
+    /// use fourforce::orbit::{Corrector, Kick, Monitor, Orbit, Place, Tuning};
+    /// use fourforce::transfer::TransferMap;
+    /// use fourforce::{Motion, Species};
+    /// let mut orbit = Orbit::<f64, 1, 1>::new();
+    /// orbit.try_configure([Monitor::try_new(0.01, 1.0)?], [Corrector::try_new(-0.01, 0.01, 0.01)?], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// let line = |p: Motion<f64>| -> Result<_, fourforce::Error> {
+    ///     Ok([
+    ///         (TransferMap::IDENTITY, Place::Corrector { index: 0, kick: Kick::Magnetic, direction: KickDirection::Horizontal, motion: p }),
+    ///         (TransferMap::try_drift(&p, 3.0)?, Place::Monitor(0)),
+    ///     ])
+    /// };
+    /// let mut s = [1.0e-3];
+    /// orbit.try_set_places(line(Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6)?)?, &mut s)?;
+    /// orbit.try_set_places(line(Motion::try_from_kinetic_energy(Species::PROTON, 40.0e6)?)?, &mut s)?;
+    /// let brho = |t| Motion::try_from_kinetic_energy(Species::<f64>::PROTON, t)?.try_magnetic_rigidity();
+    /// assert!((s[0] - 1.0e-3 * brho(40.0e6)? / brho(10.0e6)?).abs() < 1e-17);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_set_places<I>(&mut self, places: I, settings: &mut [T; C]) -> Result<u32, Error>
+    where
+        I: IntoIterator<Item = (TransferMap<T>, Place<T>)>,
+    {
+        let old = self.response.kick_per_setting;
+        let was_loaded = self.loaded;
+        self.loaded = false;
+        self.invalidate();
+        self.response.try_fill(places)?;
+        let next = if was_loaded {
+            self.rescaled(&old, &self.response.kick_per_setting, settings)?
+        } else {
+            self.clamped(settings)?
+        };
+        Ok(self.loaded_with(next, settings))
+    }
+
+    /// The set points rescaled by `κ_old/κ_new` and clamped to the ranges, with the mask of
+    /// those held at a limit.
+    fn rescaled(
+        &self,
+        old: &[T; C],
+        new: &[T; C],
+        settings: &[T; C],
+    ) -> Result<([T; C], u32), Error> {
         let mut next = *settings;
         let mut held = 0;
         for (j, (((s, old), new), c)) in next
             .iter_mut()
-            .zip(&self.response.kick_per_setting)
-            .zip(&response.kick_per_setting)
+            .zip(old)
+            .zip(new)
             .zip(&self.correctors)
             .enumerate()
         {
             let scaled = try_finite(try_finite(*s)? * (*old / *new))?;
-            *s = scaled.max(c.min).min(c.max);
+            *s = clamp(scaled, c.min, c.max);
             if *s != scaled {
                 held |= 1 << j;
             }
         }
+        Ok((next, held))
+    }
+
+    /// The set points clamped to the ranges, with the mask of those held at a limit.
+    fn clamped(&self, settings: &[T; C]) -> Result<([T; C], u32), Error> {
+        let mut next = *settings;
+        let mut held = 0;
+        for (j, (s, c)) in next.iter_mut().zip(&self.correctors).enumerate() {
+            let x = try_finite(*s)?;
+            *s = clamp(x, c.min, c.max);
+            if *s != x {
+                held |= 1 << j;
+            }
+        }
+        Ok((next, held))
+    }
+
+    fn loaded_with(&mut self, (next, held): ([T; C], u32), settings: &mut [T; C]) -> u32 {
         *settings = next;
-        self.response = response;
+        self.loaded = true;
         self.set_reach();
         self.invalidate();
-        Ok(held)
+        held
     }
 
     /// One iteration: reads the monitors `readings[i] = [x_i, y_i]` (m, offsets from the wanted
@@ -1098,14 +1303,13 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         readings: &[[T; 2]; M],
         settings: &mut [T; C],
     ) -> Result<Outcome, Error> {
-        let mut now = *settings;
-        for (s, c) in now.iter_mut().zip(&self.correctors) {
-            *s = try_finite(*s)?.max(c.min).min(c.max);
+        if !(self.configured && self.loaded) {
+            return Err(Error::Empty);
         }
-        self.watch(readings);
+        let b = self.watch(readings);
         let mut decomposed = false;
         if self.full.free.is_none() {
-            let all = if C == 64 { u64::MAX } else { (1 << C) - 1 };
+            let all = if C == 32 { u32::MAX } else { (1 << C) - 1 };
             decompose_into(
                 &mut self.full,
                 all,
@@ -1126,22 +1330,25 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             in_use: self.in_use,
             decomposed,
         };
-        if let Some(hold) = self.full.hold {
+        if let hold @ State::Hold { .. } = self.full.hold {
+            for x in settings.iter() {
+                try_finite(*x)?;
+            }
             outcome.state = hold;
             self.record_moves(0);
             return Ok(outcome);
         }
-        let b = self.used_readings(readings);
         let g = self.tuning.gain;
         let mut step = [T::ZERO; C];
         apply_gains(&self.full, &b, g, &mut step);
-        let mut held = 0_u64;
+        let mut next = *settings;
+        let mut moved = 0_u32;
+        let mut held = self.limit(settings, &mut step, &mut outcome, 0, &mut next, &mut moved)?;
+        let mut newly = held;
         for _ in 0..C {
-            let newly = self.limit(&now, &mut step, &mut outcome, held);
             if newly == 0 {
                 break;
             }
-            held |= newly;
             // The free correctors solve again for what the held ones leave: b' = b + R_L Δs_L / g.
             let mut rest = b;
             for (j, ds) in step.iter().enumerate() {
@@ -1165,7 +1372,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
                 outcome.decomposed = true;
             }
             let mut free_step = [T::ZERO; C];
-            if self.restricted.hold.is_none() {
+            if self.restricted.hold == State::Correcting {
                 apply_gains(&self.restricted, &rest, g, &mut free_step);
             }
             for (j, (ds, fs)) in step.iter_mut().zip(free_step).enumerate() {
@@ -1173,112 +1380,190 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
                     *ds = fs;
                 }
             }
+            newly = self.limit(
+                settings,
+                &mut step,
+                &mut outcome,
+                held,
+                &mut next,
+                &mut moved,
+            )?;
+            held |= newly;
         }
-        let mut moved = 0_u64;
-        for (j, ((s, ds), c)) in now.iter_mut().zip(step).zip(&self.correctors).enumerate() {
-            let next = (*s + ds).max(c.min).min(c.max);
-            if next != *s {
-                moved |= 1 << j;
-            }
-            *s = next;
-        }
-        *settings = now;
+        *settings = next;
         self.record_moves(moved);
         Ok(outcome)
     }
 
-    /// Clips the step of every not-yet-held corrector to its limits; returns the newly held ones.
-    fn limit(&self, now: &[T; C], step: &mut [T; C], outcome: &mut Outcome, held: u64) -> u64 {
+    /// For every corrector not yet held: its set point brought into range, plus its step, into
+    /// `next`; a step that would cross a limit is clipped to it (and reported). Returns the
+    /// correctors newly held. The common case, no limit near, costs an add and three compares.
+    fn limit(
+        &self,
+        settings: &[T; C],
+        step: &mut [T; C],
+        outcome: &mut Outcome,
+        held: u32,
+        next: &mut [T; C],
+        moved: &mut u32,
+    ) -> Result<u32, Error> {
         let mut newly = 0;
-        for (j, ((ds, s), c)) in step.iter_mut().zip(now).zip(&self.correctors).enumerate() {
-            if bit(held, j) {
+        for (j, (((ds, s), c), n)) in step
+            .iter_mut()
+            .zip(settings)
+            .zip(&self.correctors)
+            .zip(next.iter_mut())
+            .enumerate()
+        {
+            if held != 0 && bit(held, j) {
                 continue;
             }
-            let (lo_range, hi_range) = (c.min - *s, c.max - *s);
-            let lo = lo_range.max(-c.max_step);
-            let hi = hi_range.min(c.max_step);
             let wanted = *ds;
-            if wanted > hi {
-                *ds = hi;
-            } else if wanted < lo {
-                *ds = lo;
-            } else {
+            let candidate = *s + wanted;
+            // The common case: within the rate and the range (false for a non-finite setting).
+            if wanted.abs() <= c.max_step && candidate >= c.min && candidate <= c.max {
+                *n = candidate;
+                if candidate != *s {
+                    *moved |= 1 << j;
+                }
                 continue;
             }
-            newly |= 1 << j;
-            if *ds == hi_range || *ds == lo_range {
-                outcome.saturated |= 1 << j;
+            let s = clamp(try_finite(*s)?, c.min, c.max);
+            let (lo_range, hi_range) = (c.min - s, c.max - s);
+            let lo = if lo_range > -c.max_step {
+                lo_range
             } else {
-                outcome.rate_limited |= 1 << j;
+                -c.max_step
+            };
+            let hi = if hi_range < c.max_step {
+                hi_range
+            } else {
+                c.max_step
+            };
+            let clipped = if wanted > hi {
+                hi
+            } else if wanted < lo {
+                lo
+            } else {
+                wanted
+            };
+            if clipped != wanted {
+                *ds = clipped;
+                newly |= 1 << j;
+                if clipped == hi_range || clipped == lo_range {
+                    outcome.saturated |= 1 << j;
+                } else {
+                    outcome.rate_limited |= 1 << j;
+                }
+            }
+            *n = clamp(s + clipped, c.min, c.max);
+            if *n != s {
+                *moved |= 1 << j;
+            } else {
+                *moved &= !(1 << j);
             }
         }
-        newly
+        Ok(newly)
     }
 
-    /// The readings of the monitors in use, 0 for the others.
-    fn used_readings(&self, readings: &[[T; 2]; M]) -> Column<T, M> {
+    /// Updates the health of every monitor from its readings (a failed one leaves `in_use`) and
+    /// returns the readings of the monitors in use, 0 for the others.
+    fn watch(&mut self, readings: &[[T; 2]; M]) -> Column<T, M> {
         let mut b = Column([[T::ZERO; M]; 2]);
-        for (p, plane) in b.0.iter_mut().enumerate() {
-            for (i, (x, r)) in plane.iter_mut().zip(readings).enumerate() {
-                if bit(self.in_use, i) {
-                    *x = r.get(p).copied().unwrap_or(T::ZERO);
+        let mut failed = 0_u32;
+        let mut suspects = 0_u32;
+        let n = u16::try_from(N).unwrap_or(u16::MAX);
+        let [bx, by] = &mut b.0;
+        for (i, (((((reading, monitor), last), run), x_out), y_out)) in readings
+            .iter()
+            .zip(&self.monitors)
+            .zip(self.last.iter_mut())
+            .zip(self.runs.iter_mut())
+            .zip(bx.iter_mut())
+            .zip(by.iter_mut())
+            .enumerate()
+        {
+            let [x, y] = *reading;
+            // one comparison per plane for non-finite and out of range (false for NaN)
+            let trusted = x.abs() <= monitor.range_m && y.abs() <= monitor.range_m;
+            if !trusted {
+                failed |= 1 << i;
+                continue;
+            }
+            *x_out = x;
+            *y_out = y;
+            run[0] = if x == last[0] {
+                run[0].saturating_add(1)
+            } else {
+                1
+            };
+            run[1] = if y == last[1] {
+                run[1].saturating_add(1)
+            } else {
+                1
+            };
+            *last = [x, y];
+            if run[0] >= n || run[1] >= n {
+                suspects |= 1 << i;
+            }
+        }
+        // A repeated reading is stuck only if correctors that move it changed in each of the
+        // last N − 1 iterations (rare: checked only for the suspects).
+        let window = N.saturating_sub(1);
+        suspects &= self.in_use;
+        if suspects != 0 && self.recent_len >= window {
+            for (i, (run, reach)) in self.runs.iter().zip(self.reach.iter()).enumerate() {
+                if !bit(suspects, i) {
+                    continue;
+                }
+                for (r, reach) in run.iter().zip(reach) {
+                    if *r >= n && self.recent.iter().take(window).all(|m| m & reach != 0) {
+                        failed |= 1 << i;
+                    }
+                }
+            }
+        }
+        let newly = failed & self.in_use;
+        if newly != 0 {
+            self.in_use &= !newly;
+            self.invalidate();
+        }
+        let all = if M == 32 { u32::MAX } else { (1_u32 << M) - 1 };
+        if self.in_use != all {
+            for plane in &mut b.0 {
+                for (i, x) in plane.iter_mut().enumerate() {
+                    if !bit(self.in_use, i) {
+                        *x = T::ZERO;
+                    }
                 }
             }
         }
         b
     }
 
-    /// Updates the health of every monitor from its readings; a failed one leaves `in_use`.
-    fn watch(&mut self, readings: &[[T; 2]; M]) {
-        let mut failed = 0_u64;
-        for (p, (windows, moved)) in self.windows.iter_mut().zip(&self.moved).enumerate() {
-            for (i, ((w, reading), (monitor, n_moved))) in windows
-                .iter_mut()
-                .zip(readings)
-                .zip(self.monitors.iter().zip(moved))
-                .enumerate()
-            {
-                if !bit(self.in_use, i) {
-                    continue;
-                }
-                let x = reading.get(p).copied().unwrap_or(T::ZERO);
-                let bad = !x.is_finite()
-                    || x.abs() > monitor.range_m
-                    || w.try_push(x).is_err()
-                    || (w.is_full()
-                        && usize::from(*n_moved) + 1 >= N
-                        && w.try_spread() == Ok(T::ZERO));
-                if bad {
-                    failed |= 1 << i;
-                }
-            }
+    /// Remembers which correctors changed in this iteration (the last `N − 1` are kept).
+    fn record_moves(&mut self, moved: u32) {
+        if let Some(slot) = self.recent.get_mut(self.recent_next) {
+            *slot = moved;
         }
-        if failed != 0 {
-            self.in_use &= !failed;
-            self.invalidate();
-        }
-    }
-
-    /// Counts, per reading, the consecutive iterations in which a corrector that moves it changed.
-    fn record_moves(&mut self, moved: u64) {
-        for (counts, reach) in self.moved.iter_mut().zip(&self.reach) {
-            for (n, r) in counts.iter_mut().zip(reach) {
-                *n = if moved & r != 0 {
-                    n.saturating_add(1)
-                } else {
-                    0
-                };
-            }
-        }
+        let window = N.saturating_sub(1);
+        self.recent_next = if self.recent_next + 1 >= window {
+            0
+        } else {
+            self.recent_next + 1
+        };
+        self.recent_len = (self.recent_len + 1).min(window);
     }
 
     fn set_reach(&mut self) {
-        let mut reach = [[0_u64; M]; 2];
+        let mut reach = [[0_u32; 2]; M];
         for (j, column) in self.response.per_kick.iter().enumerate() {
-            for (masks, plane) in reach.iter_mut().zip(column) {
-                for (mask, r) in masks.iter_mut().zip(plane) {
+            for (p, plane) in column.iter().enumerate() {
+                for (masks, r) in reach.iter_mut().zip(plane) {
                     if *r != T::ZERO {
-                        *mask |= 1 << j;
+                        if let Some(m) = masks.get_mut(p) {
+                            *m |= 1 << j;
+                        }
                     }
                 }
             }
@@ -1301,12 +1586,33 @@ fn apply_gains<T: Real, const M: usize, const C: usize>(
 ) {
     for ((ds, row), plane) in step.iter_mut().zip(&gains.gain).zip(&gains.plane) {
         let sum = match plane {
-            Plane::X => svd::dot(&row.0[0], &b.0[0], M),
-            Plane::Y => svd::dot(&row.0[1], &b.0[1], M),
-            Plane::Both => svd::dot(row.as_ref(), b.as_ref(), 2 * M),
+            Plane::X => dot(&row.0[0], &b.0[0]),
+            Plane::Y => dot(&row.0[1], &b.0[1]),
+            Plane::Both => dot(&row.0[0], &b.0[0]) + dot(&row.0[1], &b.0[1]),
         };
         *ds = g * sum;
     }
+}
+
+/// `Σ a_i b_i` of two rows of fixed length, four products per pass into four partial sums (a
+/// quarter of the loop's bookkeeping on a chip; the order of the sums is fixed).
+#[inline]
+fn dot<T: Real, const M: usize>(a: &[T; M], b: &[T; M]) -> T {
+    let mut sums = [T::ZERO; 4];
+    let (a4, b4) = (a.chunks_exact(4), b.chunks_exact(4));
+    let (ra, rb) = (a4.remainder(), b4.remainder());
+    for (x, y) in a4.zip(b4) {
+        if let ([x0, x1, x2, x3], [y0, y1, y2, y3]) = (x, y) {
+            sums[0] += *x0 * *y0;
+            sums[1] += *x1 * *y1;
+            sums[2] += *x2 * *y2;
+            sums[3] += *x3 * *y3;
+        }
+    }
+    for (x, y) in ra.iter().zip(rb) {
+        sums[0] += *x * *y;
+    }
+    (sums[0] + sums[1]) + (sums[2] + sums[3])
 }
 
 /// `b += R κ_j x` (column j of the response in settings units).
@@ -1364,10 +1670,10 @@ impl Block {
 #[allow(clippy::too_many_arguments)]
 fn decompose_into<T: Real, const M: usize, const C: usize>(
     out: &mut Gains<T, M, C>,
-    free: u64,
+    free: u32,
     response: &Response<T, M, C>,
     monitors: &[Monitor<T>; M],
-    in_use: u64,
+    in_use: u32,
     tuning: Tuning<T>,
     work: &mut [Column<T, M>; C],
     v: &mut [[T; C]; C],
@@ -1443,13 +1749,21 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
         let ss = s.get_mut(block.offset..end).ok_or(Error::OutOfBounds)?;
         svd::try_decompose(cols, block.rows, vs, ss)?;
         for sigma in ss.iter() {
-            sigma_max = sigma_max.max(sigma.scalbn(block.scale_exp));
+            let sigma = sigma.scalbn(block.scale_exp);
+            if sigma > sigma_max {
+                sigma_max = sigma;
+            }
         }
     }
     // 2. Rank and hold, then the gains: G[j][r] = −(1/κ_j) Σ_l V[j][l] f_l W[r][l] w_r 2^-e with
     //    f_l = 1/(σ_l² + (α σ_max)²), in the block's scaled units.
-    let mut gains = [Column([[T::ZERO; M]; 2]); C];
-    let mut hold = None;
+    // Written in place (no copy of the C × 2M gains on the stack).
+    out.free = None;
+    for g in out.gain.iter_mut() {
+        *g = Column([[T::ZERO; M]; 2]);
+    }
+    let gains = &mut out.gain;
+    let mut hold = State::Correcting;
     for block in &blocks {
         if block.k == 0 {
             continue;
@@ -1476,10 +1790,10 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
             }
         }
         if usize::from(rank) < block.k {
-            hold = Some(State::Hold {
+            hold = State::Hold {
                 rank,
                 correctors: u8::try_from(block.k).unwrap_or(u8::MAX),
-            });
+            };
             break;
         }
         let mut local = 0;
@@ -1510,7 +1824,6 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
             local += 1;
         }
     }
-    out.gain = gains;
     out.plane = planes;
     out.hold = hold;
     out.free = Some(free);

@@ -53,43 +53,121 @@ pub fn monitor_s_m(i: usize) -> f64 {
     CELL_M * i as f64 + 1.8
 }
 
-/// The places of the line in beam order with the maps between them, computed as the iterator
-/// goes (nothing stored), at the kinetic energy `kinetic_ev`, quadrupoles scaled by `quad_scale`.
-fn places<T: Real>(motion: Motion<T>, quad_scale: T) -> impl Iterator<Item = Step<T>> {
-    let gl = T::from_f64(QUAD_T) * quad_scale;
-    (0..CELLS).flat_map(move |cell| {
-        let mut out: [Option<Step<T>>; 3] = [None, None, None];
-        let drift = |l: f64| TransferMap::try_drift(&motion, T::from_f64(l));
-        let corrector = |index: usize, direction| Place::Corrector {
+/// The places of the line in beam order with the map from the place before (or the entry) to
+/// each, computed as the iterator goes (nothing stored), on the reference `motion`, quadrupoles
+/// scaled by `quad_scale`.
+pub struct Places<T: Real> {
+    motion: Motion<T>,
+    gl: T,
+    next: usize,
+}
+
+impl<T: Real> Places<T> {
+    pub fn new(motion: Motion<T>, quad_scale: T) -> Self {
+        Self {
+            motion,
+            gl: T::from_f64(QUAD_T) * quad_scale,
+            next: 0,
+        }
+    }
+
+    fn drift(&self, length_m: T) -> Result<TransferMap<T>, Error> {
+        TransferMap::try_drift(&self.motion, length_m)
+    }
+
+    fn quad(&self, sign: T) -> Result<TransferMap<T>, Error> {
+        TransferMap::try_thin_quadrupole(&self.motion, sign * self.gl)
+    }
+
+    fn corrector(&self, index: usize, direction: KickDirection<T>) -> Place<T> {
+        Place::Corrector {
             index,
             kick: Kick::Magnetic,
             direction,
-            motion,
-        };
-        let first = (|| {
-            let q = TransferMap::try_thin_quadrupole(&motion, gl)?;
-            Ok(q.then(&drift(0.4)?))
-        })();
-        let qd_to_monitor = (|| {
-            let m = drift(0.6)?
-                .then(&TransferMap::try_thin_quadrupole(&motion, -gl)?)
-                .then(&drift(0.6)?);
-            Ok(m)
-        })();
-        if cell < PER_PLANE {
-            out[0] = Some(first.map(|m| (m, corrector(cell, KickDirection::Horizontal))));
-            out[1] =
-                Some(drift(0.2).map(|m| (m, corrector(PER_PLANE + cell, KickDirection::Vertical))));
-            out[2] = Some(qd_to_monitor.map(|m| (m, Place::Monitor(cell))));
-        } else {
-            // no correctors: the maps are joined up to the monitor
-            out[0] = Some((|| {
-                let m = first?.then(&drift(0.2)?).then(&qd_to_monitor?);
-                Ok((m, Place::Monitor(cell)))
-            })());
+            motion: self.motion,
         }
-        out.into_iter().flatten()
-    })
+    }
+
+    /// The place `k` of the sequence: three per cell with correctors (H, V, monitor), one per
+    /// cell without.
+    fn place(&self, k: usize) -> Option<Step<T>> {
+        let corrected = 3 * PER_PLANE;
+        let (cell, part) = if k < corrected {
+            (k / 3, k % 3)
+        } else if k < corrected + (CELLS - PER_PLANE) {
+            (PER_PLANE + k - corrected, 3)
+        } else {
+            return None;
+        };
+        // the 0.6 m after the previous cell's monitor
+        let tail = |m: TransferMap<T>| -> Result<TransferMap<T>, Error> {
+            if cell == 0 {
+                Ok(m)
+            } else {
+                Ok(self.drift(T::from_f64(0.6))?.then(&m))
+            }
+        };
+        let six = T::from_f64(0.6);
+        Some((|| match part {
+            0 => Ok((
+                tail(self.quad(T::ONE)?.then(&self.drift(T::from_f64(0.4))?))?,
+                self.corrector(cell, KickDirection::Horizontal),
+            )),
+            1 => Ok((
+                self.drift(T::from_f64(0.2))?,
+                self.corrector(PER_PLANE + cell, KickDirection::Vertical),
+            )),
+            2 => Ok((
+                self.drift(six)?
+                    .then(&self.quad(T::NEG_ONE)?)
+                    .then(&self.drift(six)?),
+                Place::Monitor(cell),
+            )),
+            _ => Ok((
+                tail(
+                    self.quad(T::ONE)?
+                        .then(&self.drift(T::from_f64(1.2))?)
+                        .then(&self.quad(T::NEG_ONE)?)
+                        .then(&self.drift(six)?),
+                )?,
+                Place::Monitor(cell),
+            )),
+        })())
+    }
+}
+
+impl<T: Real> Iterator for Places<T> {
+    type Item = Step<T>;
+    fn next(&mut self) -> Option<Step<T>> {
+        let p = self.place(self.next)?;
+        self.next += 1;
+        Some(p)
+    }
+}
+
+/// Loads the line's response at `kinetic_ev` into `orbit` (in place), rescaling `settings` when
+/// a response was loaded before; returns the set points held at a limit.
+pub fn try_load<T: Real>(
+    orbit: &mut Orbit<T, MONITORS, CORRECTORS>,
+    kinetic_ev: T,
+    settings: &mut [T; CORRECTORS],
+) -> Result<u32, Error> {
+    let motion = Motion::try_from_kinetic_energy(Species::PROTON, kinetic_ev)?;
+    let mut error = None;
+    let held = orbit.try_set_places(
+        Places::new(motion, T::ONE).map_while(|p| match p {
+            Ok(p) => Some(p),
+            Err(e) => {
+                error = Some(e);
+                None
+            }
+        }),
+        settings,
+    );
+    match error {
+        Some(e) => Err(e),
+        None => held,
+    }
 }
 
 /// The response of the line at `kinetic_ev`, quadrupoles scaled by `quad_scale`.
@@ -99,37 +177,17 @@ pub fn try_response<T: Real>(
 ) -> Result<Response<T, MONITORS, CORRECTORS>, Error> {
     let motion = Motion::try_from_kinetic_energy(Species::PROTON, kinetic_ev)?;
     let mut error = None;
-    let r = Response::try_from_places(tail_drifts(motion, places(motion, quad_scale)).map_while(
-        |p| match p {
-            Ok(p) => Some(p),
-            Err(e) => {
-                error = Some(e);
-                None
-            }
-        },
-    ));
+    let r = Response::try_from_places(Places::new(motion, quad_scale).map_while(|p| match p {
+        Ok(p) => Some(p),
+        Err(e) => {
+            error = Some(e);
+            None
+        }
+    }));
     match error {
         Some(e) => Err(e),
         None => r,
     }
-}
-
-/// Puts the 0.6 m drift that follows each monitor in front of the next map.
-fn tail_drifts<T: Real>(
-    motion: Motion<T>,
-    inner: impl Iterator<Item = Step<T>>,
-) -> impl Iterator<Item = Step<T>> {
-    let mut after_monitor = false;
-    inner.map(move |p| {
-        let (map, place) = p?;
-        let map = if after_monitor {
-            TransferMap::try_drift(&motion, T::from_f64(0.6))?.then(&map)
-        } else {
-            map
-        };
-        after_monitor = matches!(place, Place::Monitor(_));
-        Ok((map, place))
-    })
 }
 
 /// The offsets at the monitors of a beam entering with `entry` = (x, x', y, y') and every
@@ -142,7 +200,7 @@ pub fn try_free_orbit<T: Real>(
     let motion = Motion::try_from_kinetic_energy(Species::PROTON, kinetic_ev)?;
     let mut v = [entry[0], entry[1], entry[2], entry[3], T::ZERO, T::ZERO];
     let mut out = [[T::ZERO; 2]; MONITORS];
-    for p in tail_drifts(motion, places(motion, quad_scale)) {
+    for p in Places::new(motion, quad_scale) {
         let (map, place) = p?;
         v = map.apply(v);
         if let Place::Monitor(i) = place {
@@ -162,56 +220,90 @@ pub fn calibration<T: Real>() -> Result<Calibration<T, 7>, Error> {
     Calibration::try_new(a, tm)
 }
 
-/// The loop: monitors trusted to ±10 mm, weight 1 each; correctors over the calibrated range,
-/// at most 0.25 mT m per iteration (H0 is a short corrector with half the range); gain 0.5,
-/// α = 0.1 (the early monitors see one corrector each: without it the solution follows the
-/// weak modes), cutoff 0.01.
-pub fn try_orbit<T: Real>() -> Result<Orbit<T, MONITORS, CORRECTORS>, Error> {
-    let response = try_response(T::from_f64(NOMINAL_EV), T::ONE)?;
+/// Sets up the loop in place (nothing of its size on the stack): monitors trusted to ±10 mm,
+/// weight 1 each; correctors over the calibrated range, at most 0.25 mT m per iteration (H0 is
+/// a short corrector with half the range); gain 0.5, α = 0.1 (the first monitors see one
+/// corrector each: without it the solution follows the weak modes), cutoff 0.01; the response
+/// at the nominal energy from the line's maps.
+pub fn try_setup<T: Real>(orbit: &mut Orbit<T, MONITORS, CORRECTORS>) -> Result<(), Error> {
     let (lo, hi) = calibration::<T>()?.setting_range();
     let step = T::from_f64(0.25e-3);
     let mut correctors = [Corrector::try_new(lo, hi, step)?; CORRECTORS];
-    // H0 is a short corrector: half the range.
     correctors[0] = Corrector::try_new(lo * T::HALF, hi * T::HALF, step)?;
     let monitor = Monitor::try_new(T::from_f64(10.0e-3), T::ONE)?;
     let tuning = Tuning::try_new(T::from_f64(GAIN), T::from_f64(ALPHA), T::from_f64(CUTOFF))?;
-    Orbit::try_new(response, [monitor; MONITORS], correctors, tuning)
+    orbit.try_configure([monitor; MONITORS], correctors, tuning)?;
+    try_load(orbit, T::from_f64(NOMINAL_EV), &mut [T::ZERO; CORRECTORS])?;
+    Ok(())
 }
 
-/// The simulated machine: the real line (quadrupoles 3 % off the model) at the present energy.
+/// The three phases of the run: the start, after the shift of the entry angle, after the
+/// energy step.
+pub const PHASES: usize = 3;
+
+/// The phase of iteration `i`.
+pub fn phase(i: usize) -> usize {
+    usize::from(i >= SHIFT_AT) + usize::from(i >= ENERGY_AT)
+}
+
+/// The beam's energy in phase `phase`, eV.
+pub fn kinetic_ev(phase: usize) -> f64 {
+    if phase >= 2 { STEPPED_EV } else { NOMINAL_EV }
+}
+
+/// The simulated machine: the true offsets at the monitors for given settings.
+pub trait Plant<T: Real> {
+    /// The machine in phase `phase`.
+    fn try_set_phase(&mut self, phase: usize) -> Result<(), Error>;
+    /// The true offsets at the monitors (m) for the settings `settings`.
+    fn orbit(&self, settings: &[T; CORRECTORS]) -> [[T; 2]; MONITORS];
+}
+
+/// The real line computed from its maps: quadrupoles 3 % off the model.
 pub struct Machine<T: Real> {
-    pub kinetic_ev: T,
     truth: Response<T, MONITORS, CORRECTORS>,
     free: [[T; 2]; MONITORS],
-    frozen: Option<[T; 2]>,
 }
 
 impl<T: Real> Machine<T> {
-    pub fn try_new(kinetic_ev: T, entry: [f64; 4]) -> Result<Self, Error> {
-        let scale = T::from_f64(QUAD_ERROR);
-        Ok(Self {
-            kinetic_ev,
-            truth: try_response(kinetic_ev, scale)?,
-            free: try_free_orbit(kinetic_ev, scale, entry.map(T::from_f64))?,
-            frozen: None,
-        })
+    pub fn try_new() -> Result<Self, Error> {
+        let mut m = Self {
+            truth: Response::try_new([[[T::ZERO; MONITORS]; 2]; CORRECTORS], [T::ONE; CORRECTORS])?,
+            free: [[T::ZERO; 2]; MONITORS],
+        };
+        m.try_set_phase(0)?;
+        Ok(m)
     }
 
-    /// The true offsets at the monitors for the settings `settings`.
-    pub fn orbit(&self, settings: &[T; CORRECTORS]) -> [[T; 2]; MONITORS] {
+    /// The truth as a table: reading per setting `[j][p][i]` (m per T m) and the free orbit.
+    pub fn table(&self) -> ([[[T; MONITORS]; 2]; CORRECTORS], [[T; 2]; MONITORS]) {
+        let mut t = [[[T::ZERO; MONITORS]; 2]; CORRECTORS];
+        for (j, column) in t.iter_mut().enumerate() {
+            for (p, plane) in column.iter_mut().enumerate() {
+                for (i, x) in plane.iter_mut().enumerate() {
+                    *x = self.truth.reading_per_setting(i, p, j).unwrap_or(T::ZERO);
+                }
+            }
+        }
+        (t, self.free)
+    }
+}
+
+impl<T: Real> Plant<T> for Machine<T> {
+    fn try_set_phase(&mut self, phase: usize) -> Result<(), Error> {
+        let scale = T::from_f64(QUAD_ERROR);
+        let kinetic = T::from_f64(kinetic_ev(phase));
+        let entry = if phase == 0 { ENTRY } else { SHIFTED_ENTRY };
+        self.truth = try_response(kinetic, scale)?;
+        self.free = try_free_orbit(kinetic, scale, entry.map(T::from_f64))?;
+        Ok(())
+    }
+
+    fn orbit(&self, settings: &[T; CORRECTORS]) -> [[T; 2]; MONITORS] {
         let mut b = self.truth.predict(settings);
         for (o, f) in b.iter_mut().zip(&self.free) {
             o[0] += f[0];
             o[1] += f[1];
-        }
-        b
-    }
-
-    /// What the monitors report: the true orbit, with the stuck one's frozen value.
-    pub fn readings(&self, settings: &[T; CORRECTORS]) -> [[T; 2]; MONITORS] {
-        let mut b = self.orbit(settings);
-        if let (Some(f), Some(o)) = (self.frozen, b.get_mut(STUCK_MONITOR)) {
-            *o = f;
         }
         b
     }
@@ -227,13 +319,15 @@ pub struct Record<T: Real> {
     pub settings: [T; CORRECTORS],
     pub outcome: Outcome,
     /// Set points held at a limit by the energy step's rescaling (bit j).
-    pub rescale_held: u64,
+    pub rescale_held: u32,
 }
 
-/// Runs the whole scenario; `step` performs each iteration (the firmware wraps it in its
-/// counting markers), `record` receives each iteration's record.
+/// Runs the whole scenario on a loop set up by [`try_setup`]: `step` performs each iteration
+/// (the firmware wraps it in its counting markers), `record` receives each iteration's record.
+/// At the energy step the response is rebuilt from the maps in place and the set points follow.
 pub fn try_run<T: Real>(
     orbit: &mut Orbit<T, MONITORS, CORRECTORS>,
+    plant: &mut impl Plant<T>,
     mut step: impl FnMut(
         &mut Orbit<T, MONITORS, CORRECTORS>,
         &[[T; 2]; MONITORS],
@@ -241,28 +335,30 @@ pub fn try_run<T: Real>(
     ) -> Result<Outcome, Error>,
     mut record: impl FnMut(&Record<T>),
 ) -> Result<(), Error> {
-    let mut machine = Machine::try_new(T::from_f64(NOMINAL_EV), ENTRY)?;
+    plant.try_set_phase(0)?;
     let mut settings = [T::ZERO; CORRECTORS];
+    let mut frozen = None;
     for iteration in 0..ITERATIONS {
         let mut rescale_held = 0;
         if iteration == SHIFT_AT {
-            let frozen = machine.readings(&settings).get(STUCK_MONITOR).copied();
-            machine = Machine::try_new(machine.kinetic_ev, SHIFTED_ENTRY)?;
-            machine.frozen = frozen;
+            frozen = plant.orbit(&settings).get(STUCK_MONITOR).copied();
         }
+        if iteration == SHIFT_AT || iteration == ENERGY_AT {
+            plant.try_set_phase(phase(iteration))?;
+        }
+        let kinetic = T::from_f64(kinetic_ev(phase(iteration)));
         if iteration == ENERGY_AT {
-            let kinetic = T::from_f64(STEPPED_EV);
-            let frozen = machine.frozen;
-            machine = Machine::try_new(kinetic, SHIFTED_ENTRY)?;
-            machine.frozen = frozen;
-            rescale_held = orbit.try_set_response(try_response(kinetic, T::ONE)?, &mut settings)?;
+            rescale_held = try_load(orbit, kinetic, &mut settings)?;
         }
-        let readings = machine.readings(&settings);
-        let true_orbit = machine.orbit(&settings);
+        let true_orbit = plant.orbit(&settings);
+        let mut readings = true_orbit;
+        if let (Some(f), Some(o)) = (frozen, readings.get_mut(STUCK_MONITOR)) {
+            *o = f;
+        }
         let outcome = step(orbit, &readings, &mut settings)?;
         record(&Record {
             iteration,
-            kinetic_ev: machine.kinetic_ev,
+            kinetic_ev: kinetic,
             readings,
             true_orbit,
             settings,

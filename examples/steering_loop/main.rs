@@ -28,7 +28,7 @@ use std::fmt::Write as _;
 use std::process::ExitCode;
 
 use fourforce::check::EnergyWindow;
-use fourforce::orbit::State;
+use fourforce::orbit::{Orbit, State};
 use fourforce::witness::{Alpha, Reading, Watch};
 use fourforce::{Error, Motion, Species};
 use line::{
@@ -83,7 +83,9 @@ fn run() -> Result<ExitCode, Error> {
     println!(
         " it  energy    rms(true)  max|x,y|  monitors  limits          state      witnesses: fused energy, chi2 (2 dof), outlier"
     );
-    let mut orbit = line::try_orbit::<f32>()?;
+    let mut orbit = Orbit::new();
+    line::try_setup::<f32>(&mut orbit)?;
+    let mut machine = line::Machine::try_new()?;
     let cal = line::calibration::<f32>()?;
     let mut records: Vec<Record<f32>> = Vec::new();
     let mut failures: Vec<String> = Vec::new();
@@ -92,6 +94,7 @@ fn run() -> Result<ExitCode, Error> {
     let (mut plain_ns, mut plain_n, mut decomp_ns, mut decomp_n) = (0_u128, 0_u32, 0_u128, 0_u32);
     line::try_run(
         &mut orbit,
+        &mut machine,
         |orbit, readings, settings| {
             let t = std::time::Instant::now();
             let out = orbit.try_step(readings, settings);
