@@ -30,7 +30,7 @@
 //! # Examples
 //! ```
 //! use fourforce::{Boost, FieldTensor, ThreeVector};
-//! // Published-checks §4 [mp], Jackson 3rd ed. §11.10 (from memory): a pure E = 1000 V/m along y
+//! // mpmath from CODATA 2018; Jackson 3rd ed. §11.10 (from memory): a pure E = 1000 V/m along y
 //! // seen from a frame moving at 0.6 c along x is E' = 1250 V/m along y, B' = −2.501 730 713 99e-6 T along z.
 //! let boost = Boost::try_from_beta(ThreeVector::new(0.6_f64, 0.0, 0.0))?;
 //! let f = FieldTensor::try_from_fields(ThreeVector::new(0.0, 1000.0, 0.0), ThreeVector::ZERO)?;

@@ -4,7 +4,7 @@
 
 use fourforce::check::{EnergyWindow, MovingWindow, Trend, Verdict};
 use fourforce::{Error, Motion, Species};
-use fuzzkit::{Bits, Input, both_precisions, known};
+use fuzzkit::{Bits, Input, both_precisions};
 use libfuzzer_sys::fuzz_target;
 
 const N: usize = 5;
@@ -26,14 +26,10 @@ fn check_verdict<T: Bits>(w: &EnergyWindow<T>, v: Verdict<T>, allowed: &[Error])
             deviation,
         } => {
             assert!(t.is_finite() && t >= T::ZERO, "verdict energy {t:?}");
-            let big = (t.to_f64() - w.nominal().to_f64()).abs() / w.nominal().to_f64()
-                > T::MAX.to_f64() / 2.0;
-            if !(known::VERDICT_DEVIATION_OVERFLOW && big) {
-                assert!(
-                    deviation.is_finite(),
-                    "deviation {deviation:?} for T {t:?} in {w:?}"
-                );
-            }
+            assert!(
+                deviation.is_finite(),
+                "deviation {deviation:?} for T {t:?} in {w:?}"
+            );
             let (lo, hi) = (w.low(), w.high());
             match v {
                 Verdict::Inside { .. } => assert!(lo <= t && t <= hi),
@@ -55,9 +51,6 @@ fn run<T: Bits>(input: &mut Input<'_>) {
             Err(_) => return,
         },
     };
-    if known::tiny_rest_energy(species.rest_energy()) {
-        return;
-    }
     let (a, b, c) = (input.real::<T>(), input.real::<T>(), input.real::<T>());
     let window = if selector & 4 == 0 {
         let r = EnergyWindow::try_new(species, a, b, c);
@@ -98,7 +91,7 @@ fn run<T: Bits>(input: &mut Input<'_>) {
                 // (within an ulp of MAX: the rounding of nominal (1 + tol) decides)
                 let overflow =
                     a.to_f64() * (1.0 + b.to_f64()) > T::MAX.to_f64() * (1.0 - T::EPSILON.to_f64());
-                let overflow_error = e == Error::Overflow || known::WINDOW_AROUND_NON_FINITE;
+                let overflow_error = e == Error::Overflow;
                 assert!(
                     !valid || (overflow && overflow_error),
                     "around ({a:?}, {b:?}) refused with {e:?}"
@@ -178,9 +171,7 @@ fn run<T: Bits>(input: &mut Input<'_>) {
     match mw.try_mean() {
         Ok(mean) => {
             assert!(!held.is_empty());
-            if !known::WINDOW_STATISTICS_OVERFLOW {
-                assert!(mean.is_finite(), "mean {mean:?} of {held:?}");
-            }
+            assert!(mean.is_finite(), "mean {mean:?} of {held:?}");
             if fits {
                 // (The reference sum is f64: compared only where it cannot overflow.)
                 let want = held.iter().sum::<f64>() / held.len() as f64;
@@ -198,9 +189,7 @@ fn run<T: Bits>(input: &mut Input<'_>) {
     }
     match mw.try_spread() {
         Ok(s) => {
-            if fits || !known::WINDOW_STATISTICS_OVERFLOW {
-                assert!(s.is_finite() && s >= T::ZERO, "spread {s:?} of {held:?}");
-            }
+            assert!(s.is_finite() && s >= T::ZERO, "spread {s:?} of {held:?}");
         }
         Err(err) => assert!(
             (held.is_empty() && err == Error::Empty) || (!fits && err == Error::Overflow),
@@ -211,14 +200,12 @@ fn run<T: Bits>(input: &mut Input<'_>) {
     match mw.try_trend(threshold) {
         Ok(trend) => {
             assert!(threshold.is_finite() && threshold >= T::ZERO && held.len() >= 2);
-            if fits || !known::WINDOW_STATISTICS_OVERFLOW {
-                let drift = mw.try_drift().unwrap();
-                assert!(drift.is_finite(), "drift {drift:?} of {held:?}");
-                match trend {
-                    Trend::Rising => assert!(drift > threshold),
-                    Trend::Falling => assert!(drift < -threshold),
-                    Trend::Steady => assert!(drift.abs() <= threshold),
-                }
+            let drift = mw.try_drift().unwrap();
+            assert!(drift.is_finite(), "drift {drift:?} of {held:?}");
+            match trend {
+                Trend::Rising => assert!(drift > threshold),
+                Trend::Falling => assert!(drift < -threshold),
+                Trend::Steady => assert!(drift.abs() <= threshold),
             }
         }
         Err(err) => assert!(

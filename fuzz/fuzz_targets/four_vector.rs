@@ -3,7 +3,7 @@
 #![no_main]
 
 use fourforce::{Covector, Error, FourVector, Species, ThreeVector};
-use fuzzkit::{Bits, Input, both_precisions, known, within};
+use fuzzkit::{Bits, Input, both_precisions, within};
 use libfuzzer_sys::fuzz_target;
 
 fn three<T: Bits>(input: &mut Input<'_>) -> ThreeVector<T> {
@@ -16,10 +16,6 @@ fn check_four_velocity<T: Bits>(what: &str, u: FourVector<T>) {
     assert!(u.is_finite(), "{what}: {u:?} not finite");
     within("u0", u.time, T::ONE, T::MAX);
     let d = u.four_velocity_deviation();
-    let squares_overflow = u.time.to_f64() * u.time.to_f64() > T::MAX.to_f64() / 4.0;
-    if known::DEVIATION_OVERFLOW && squares_overflow {
-        return;
-    }
     assert!(
         d.abs() <= T::from_f64(8.0) * T::EPSILON,
         "{what}: {u:?} deviates by {d:?}"
@@ -95,10 +91,6 @@ fn run<T: Bits>(input: &mut Input<'_>) {
             match FourVector::try_four_velocity_from_momentum(s, pc) {
                 Ok(u) => {
                     assert!(pc.is_finite() && m.is_finite() && m > T::ZERO);
-                    if known::FOUR_VELOCITY_TIME_INF && u.time == T::INFINITY && u.space.is_finite()
-                    {
-                        return;
-                    }
                     check_four_velocity("from momentum", u);
                 }
                 Err(e) => {

@@ -4,7 +4,7 @@
 
 use fourforce::steer::SteeringSetup;
 use fourforce::{Error, Motion, Species};
-use fuzzkit::{Bits, Input, both_precisions, known};
+use fuzzkit::{Bits, Input, both_precisions};
 use libfuzzer_sys::fuzz_target;
 
 fn run<T: Bits>(input: &mut Input<'_>) {
@@ -46,9 +46,6 @@ fn run<T: Bits>(input: &mut Input<'_>) {
             Err(_) => return,
         },
     };
-    if known::tiny_rest_energy(species.rest_energy()) {
-        return;
-    }
     let Ok(beam) = Motion::try_from_kinetic_energy(species, input.real::<T>().abs()) else {
         return;
     };

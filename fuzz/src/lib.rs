@@ -147,80 +147,6 @@ pub fn all_finite<T: Real>(xs: &[T]) -> bool {
     xs.iter().all(|x| x.is_finite())
 }
 
-/// Findings reported to the owner and not yet fixed, tolerated by the targets until the fix
-/// lands (each one is printed in the report; set to `false` with the fix).
-pub mod known {
-    /// `try_from_kinetic_energy_{kev,mev,gev}` refuse a finite input whose conversion to eV
-    /// overflows with `NonFinite` instead of `Overflow`.
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
-    pub const UNIT_CONVERSION_NON_FINITE: bool = false;
-    /// A species of tiny rest energy (`Species::try_new` accepts any positive one) gives
-    /// accepted `Motion`s with NaN or inconsistent fields: below about 1e-19 eV in f32 (1e-154
-    /// in f64) `m²` underflows (`try_from_electric_rigidity` with `Eρ = 0`: `β = NaN`,
-    /// `1 − β = inf`); below 1 eV `pc = βγ·m` can underflow to 0 while `β > 0` (flight time
-    /// `+inf` for a moving state, f32 `m = 1.16e-15`, `βγ = 4.3e-35`).
-    /// Fixed on 2026-12-02 (`Species::try_new` refuses below 1 eV with `RestEnergyTooSmall`;
-    /// regression test in `src/species.rs`).
-    pub const TINY_REST_ENERGY_NAN: bool = false;
-    /// `Motion::try_magnetic_rigidity` and `electric_rigidity` return `Ok(+inf)` when the rigidity
-    /// (or `pc/|Q|`, formed before the division by `c`) does not fit the precision (a species of
-    /// tiny charge, such as 1e-300 e in f64), instead
-    /// of `Err(Error::Overflow)`.
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
-    pub const RIGIDITY_OK_INFINITE: bool = false;
-    /// An accepted state whose `1 − β` underflows (`γ` beyond about 2^74 in f32, 2^537 in f64,
-    /// reachable only through a species of tiny rest energy) holds `1 − β = 0` and `β = 1`
-    /// (speed `c`) instead of refusing with `Error::Overflow`.
-    /// Unreachable since 2026-12-02: with rest energies of at least 1 eV, `γ` stays below the
-    /// largest kinetic energy a state accepts (about 2^64 in f32, 2^512 in f64).
-    pub const ONE_MINUS_BETA_UNDERFLOW: bool = false;
-    /// `optics::energy_gain` and `optics::try_integrated_field_for_angle` return `Ok(±inf)` when
-    /// their product overflows, instead of `Err(Error::Overflow)`.
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
-    pub const UNCHECKED_PRODUCTS: bool = false;
-    /// `FourVector::four_velocity_deviation` is `+inf` for a four-velocity with `u⁰` above
-    /// about 1.8e19 (f32) or 1.3e154 (f64), though `try_four_velocity_from_momentum` accepts
-    /// such four-velocities: the exact squares overflow.
-    /// Fixed on 2026-12-02 (scaled by a power of two; regression test in
-    /// `checks/tests/suite/reliability_regressions.rs`).
-    pub const DEVIATION_OVERFLOW: bool = false;
-    /// `FourVector::try_four_velocity_from_momentum` returns `Ok` with `u⁰ = +inf` when every
-    /// component of `pc/m` is finite but `|pc/m|` is not (for example three components of
-    /// -2.56e38 in f32), instead of `Err(Error::Overflow)`.
-    /// Fixed on 2026-12-02 (u⁰ checked, `Overflow`; regression test in
-    /// `checks/tests/suite/reliability_regressions.rs`).
-    pub const FOUR_VELOCITY_TIME_INF: bool = false;
-    /// `FieldTensor::try_from_fields` (and the two `try_*_invariant_of`) refuse a finite `B`
-    /// whose `cB` overflows (|B| above about 1.1e30 T in f32) with `NonFinite` instead of the
-    /// documented `Overflow`.
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
-    pub const FIELD_CB_NON_FINITE: bool = false;
-    /// `Boost::rapidity` was `+inf` once `|u|²` overflowed (|u| above about 1.8e19 in f32);
-    /// fixed on 2026-12-02 by the foundation engineer's `Boost::gamma_limit` (γ ≤ 1e12).
-    pub const RAPIDITY_OVERFLOW: bool = false;
-    /// `EnergyWindow` verdicts carry a deviation `(T − T_nom)/T_nom` of `±inf` when the quotient
-    /// overflows (a subnormal nominal energy).
-    /// Fixed on 2026-12-02 (saturated at `MAX`; regression test in
-    /// `checks/tests/suite/reliability_regressions.rs`).
-    pub const VERDICT_DEVIATION_OVERFLOW: bool = false;
-    /// `EnergyWindow::try_around` refuses a finite nominal energy whose `nominal (1 + tol)`
-    /// overflows with `NonFinite` instead of `Overflow` or `InvalidRange`.
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
-    pub const WINDOW_AROUND_NON_FINITE: bool = false;
-    /// `MovingWindow` statistics of finite readings near `MAX` are `inf` or NaN (sums of the
-    /// readings or of their squared deviations overflow).
-    /// Fixed on 2026-12-02 (`Overflow`; regression test in `checks/tests/suite/reliability_regressions.rs`).
-    pub const WINDOW_STATISTICS_OVERFLOW: bool = false;
-
-    /// True when `rest` is below 1 eV (far below any charged particle's, but accepted by
-    /// `Species::try_new`): the species the `TINY_REST_ENERGY_NAN` finding concerns. Below the
-    /// square root of the smallest normal number `m²` underflows (NaN in a state); below 1 eV
-    /// `pc = βγ·m` can underflow to 0 while `β` does not (flight time `+inf` for a moving state).
-    pub fn tiny_rest_energy<T: fourforce::Real>(rest: T) -> bool {
-        TINY_REST_ENERGY_NAN && rest.to_f64() < 1.0
-    }
-}
-
 /// True when an input is so large or so small that refusing it with `Error::Overflow` is the
 /// documented behaviour: some product or quotient of the inputs (and `c`) a formula squares or
 /// divides by is beyond the square root of the range of `T` (with a margin). The values are
@@ -311,12 +237,8 @@ pub fn check_motion<T: Real>(m: &fourforce::Motion<T>, door: u8, x: T, length: T
     within("gamma", m.gamma(), T::ONE, T::MAX);
     within("beta", beta, T::ZERO, T::ONE);
     let omb = m.one_minus_beta();
-    // 1 − β ≈ 1/(2γ²) underflows to 0 once γ passes about 2^74 (f32) or 2^537 (f64).
-    let underflowed = known::ONE_MINUS_BETA_UNDERFLOW
-        && omb == T::ZERO
-        && m.gamma().to_f64() > 0.25 * (T::MIN_POSITIVE * T::EPSILON).to_f64().sqrt().recip();
     assert!(
-        (omb > T::ZERO || underflowed) && omb <= T::ONE,
+        omb > T::ZERO && omb <= T::ONE,
         "one_minus_beta = {omb:?} for {m:?}"
     );
     assert!(
@@ -348,10 +270,7 @@ pub fn check_motion<T: Real>(m: &fourforce::Motion<T>, door: u8, x: T, length: T
                     "{name} refused with {e:?} for {m:?}"
                 ),
                 Ok(v) => {
-                    let overflowed = known::RIGIDITY_OK_INFINITE && v == T::INFINITY && too_big;
-                    if !overflowed {
-                        non_negative(name, v);
-                    }
+                    non_negative(name, v);
                 }
             }
         }
