@@ -341,3 +341,708 @@ fn line_maps_agree_with_the_50_digit_references_entry_by_entry() {
     assert!(f64_worst <= 2.0, "f64: {f64_worst} at {f64_at}");
     assert!(f32_worst <= 2.0, "f32: {f32_worst} at {f32_at}");
 }
+
+// ---- against tracking through the fields with the crate's own pusher ------------------------------
+
+mod tracking {
+    use fourforce::beamline::Element;
+    use fourforce::push::{Boris, FieldSource, Particle, Pusher};
+    use fourforce::transfer::TransferMap;
+    use fourforce::{FieldTensor, Motion, Species, ThreeVector};
+
+    /// A field given by a function of the position: (E in V/m, B in T).
+    struct Field<F: Fn(ThreeVector<f64>) -> ([f64; 3], [f64; 3])>(F);
+
+    impl<F: Fn(ThreeVector<f64>) -> ([f64; 3], [f64; 3])> FieldSource<f64> for Field<F> {
+        fn field_at(&self, r: ThreeVector<f64>, _t: f64) -> FieldTensor<f64> {
+            let (e, b) = (self.0)(r);
+            FieldTensor::try_from_fields(
+                ThreeVector::new(e[0], e[1], e[2]),
+                ThreeVector::new(b[0], b[1], b[2]),
+            )
+            .unwrap()
+        }
+    }
+
+    /// A smooth ramp `(1 + sin(π u/w))/2` from 0 to 1 over `width` centred on `u = 0` (a short
+    /// fringe), and its derivative: continuous, so that the pusher's samples integrate it well.
+    fn ramp(u: f64, width: f64) -> (f64, f64) {
+        use std::f64::consts::PI;
+        if u <= -width / 2.0 {
+            (0.0, 0.0)
+        } else if u >= width / 2.0 {
+            (1.0, 0.0)
+        } else {
+            let phase = PI * u / width;
+            (0.5 + 0.5 * phase.sin(), 0.5 * PI / width * phase.cos())
+        }
+    }
+
+    const FRINGE: f64 = 2.0e-3; // m
+    const MARGIN: f64 = 0.05; // m of field-free drift before and after
+
+    /// Where a tracked particle ends on the exit plane (point `q`, direction `d` of the reference,
+    /// horizontal unit `xh`): (x, x', y, y', t).
+    fn on_plane(p: &Particle<f64>, q: [f64; 2], d: [f64; 2], xh: [f64; 2]) -> [f64; 5] {
+        let r = p.position();
+        let v = p.beta();
+        // (X, Z) components
+        let (rx, rz, vx, vy, vz) = (r.x, r.z, v.x, v.y, v.z);
+        let along = d[0] * vx + d[1] * vz;
+        let dt = (d[0] * (q[0] - rx) + d[1] * (q[1] - rz)) / along; // in units of c·s: metres / β
+        let (fx, fy, fz) = (rx + vx * dt, r.y + vy * dt, rz + vz * dt);
+        let x = xh[0] * (fx - q[0]) + xh[1] * (fz - q[1]);
+        let x_slope = (xh[0] * vx + xh[1] * vz) / along;
+        let t = p.time() + dt / 299_792_458.0;
+        [x, x_slope, fy, vy / along, t]
+    }
+
+    /// Tracks a particle of `species` with kinetic energy from `reference` scaled to momentum
+    /// `(1 + δ)`, starting at Z = −MARGIN with (x, x', y, y'), through `field`, until it is past
+    /// the exit plane; returns its coordinates there.
+    #[allow(clippy::too_many_arguments)]
+    fn track<S: FieldSource<f64>>(
+        reference: &Motion<f64>,
+        start: [f64; 5],
+        field: &S,
+        step_m: f64,
+        q: [f64; 2],
+        d: [f64; 2],
+        xh: [f64; 2],
+    ) -> [f64; 5] {
+        let [x, xp, y, yp, delta] = start;
+        let species = reference.species();
+        let m = Motion::try_from_momentum(species, reference.momentum() * (1.0 + delta)).unwrap();
+        // start on the plane Z = −MARGIN
+        let direction = ThreeVector::new(xp, yp, 1.0);
+        let mut p =
+            Particle::try_from_motion(&m, direction, ThreeVector::new(x, y, -MARGIN)).unwrap();
+        let pusher = Boris::try_new(species, step_m / m.speed()).unwrap();
+        for _ in 0..10_000_000 {
+            let r = p.position();
+            if d[0] * (r.x - q[0]) + d[1] * (r.z - q[1]) > 0.0 {
+                break;
+            }
+            pusher.try_step(&mut p, field).unwrap();
+        }
+        on_plane(&p, q, d, xh)
+    }
+
+    /// The map of an element measured by tracking: (tracked(a e_j) − tracked(0))/a for the
+    /// columns x, x', y, y', δ; rows x, x', y, y', Δt.
+    fn measured<S: FieldSource<f64>>(
+        reference: &Motion<f64>,
+        field: &S,
+        step_m: f64,
+        exit: ([f64; 2], [f64; 2], [f64; 2]),
+        amplitude: f64,
+    ) -> [[f64; 5]; 5] {
+        let (q, d, xh) = exit;
+        let zero = track(reference, [0.0; 5], field, step_m, q, d, xh);
+        let mut columns = [[0.0; 5]; 5];
+        for (j, column) in columns.iter_mut().enumerate() {
+            let mut start = [0.0; 5];
+            start[j] = amplitude;
+            let end = track(reference, start, field, step_m, q, d, xh);
+            for i in 0..5 {
+                column[i] = (end[i] - zero[i]) / amplitude;
+            }
+        }
+        columns
+    }
+
+    /// The largest difference between the measured and the computed map, each row relative to
+    /// the largest entry of that row (and the time row to the flight time per metre times 1 m).
+    fn difference(measured: &[[f64; 5]; 5], map: &TransferMap<f64>, per_metre: f64) -> f64 {
+        let r = map.to_array();
+        let cols = [0, 1, 2, 3, 5];
+        let mut worst: f64 = 0.0;
+        for (i, &row) in [0usize, 1, 2, 3, 4].iter().enumerate() {
+            let scale = if row == 4 {
+                per_metre
+            } else {
+                cols.iter().map(|&c| r[row][c].abs()).fold(1.0, f64::max)
+            };
+            for (j, &c) in cols.iter().enumerate() {
+                worst = worst.max((measured[j][i] - r[row][c]).abs() / scale);
+            }
+        }
+        worst
+    }
+
+    /// The straight element `element` of length `length` between two drifts of MARGIN: the map
+    /// of the crate against tracking through `field` at two amplitudes. Returns the differences.
+    fn straight<F: Fn(ThreeVector<f64>) -> ([f64; 3], [f64; 3])>(
+        reference: &Motion<f64>,
+        element: Element<f64>,
+        length: f64,
+        fringe: f64,
+        field: F,
+    ) -> (f64, f64) {
+        let field = Field(field);
+        let end = length + MARGIN;
+        let exit = ([0.0, end], [0.0, 1.0], [1.0, 0.0]);
+        let drift = TransferMap::try_drift(reference, MARGIN).unwrap();
+        let (map, _) = element.try_map(reference).unwrap();
+        let total = drift.then(&map).then(&drift);
+        // Boris's leapfrog misplaces a fringe's kick by an error of order (step/fringe)²
+        let step = fringe / 128.0;
+        let per_metre = reference.flight_time_per_metre();
+        let big = difference(
+            &measured(reference, &field, step, exit, 1.0e-3),
+            &total,
+            per_metre,
+        );
+        let small = difference(
+            &measured(reference, &field, step, exit, 1.0e-4),
+            &total,
+            per_metre,
+        );
+        (big, small)
+    }
+
+    fn assert_converges(name: &str, (big, small): (f64, f64), bound: f64) {
+        println!("{name}: difference {big:.2e} at amplitude 1e-3, {small:.2e} at 1e-4");
+        assert!(small < bound, "{name}: {small} at 1e-4 (bound {bound})");
+        assert!(
+            small < big / 3.0 || small < bound / 10.0,
+            "{name}: {big} -> {small} does not shrink"
+        );
+    }
+
+    fn proton() -> Motion<f64> {
+        Motion::try_from_kinetic_energy(Species::PROTON, 20.0e6).unwrap()
+    }
+
+    /// Thick magnetic quadrupole: B = G (y, x, 0) inside (hard edge with a 0.2 mm ramp).
+    #[test]
+    fn quadrupole_map_matches_tracking() {
+        let p = proton();
+        let (l, g) = (0.2, 4.0);
+        let result = straight(
+            &p,
+            Element::Quadrupole {
+                length_m: l,
+                gradient_t_per_m: g,
+            },
+            l,
+            FRINGE,
+            |r| {
+                let s = ramp(r.z, FRINGE).0 * (1.0 - ramp(r.z - l, FRINGE).0);
+                ([0.0; 3], [g * s * r.y, g * s * r.x, 0.0])
+            },
+        );
+        assert_converges("quadrupole", result, 2.0e-3);
+    }
+
+    /// Electrostatic quadrupole: the potential V (x² − y²)/a², E = −∇φ.
+    #[test]
+    fn electrostatic_quadrupole_map_matches_tracking() {
+        let p = Motion::try_from_kinetic_energy(Species::ALPHA, 200.0e3).unwrap();
+        let (l, v, a) = (0.1, 3.0e3, 0.02);
+        let element = Element::ElectrostaticQuadrupole {
+            length_m: l,
+            voltage_v: v,
+            aperture_radius_m: a,
+        };
+        let result = straight(&p, element, l, FRINGE, |r| {
+            let s = ramp(r.z, FRINGE).0 * (1.0 - ramp(r.z - l, FRINGE).0);
+            let k = 2.0 * v / (a * a) * s;
+            ([-k * r.x, k * r.y, 0.0], [0.0; 3])
+        });
+        assert_converges("electrostatic quadrupole", result, 2.0e-3);
+    }
+
+    /// Solenoid: B_z = B inside, with the fringe's radial field B_r = −(r/2) dB_z/dz.
+    #[test]
+    fn solenoid_map_matches_tracking() {
+        let e = Motion::try_from_kinetic_energy(Species::ELECTRON, 1.0e6).unwrap();
+        let (l, b) = (0.5, 0.005);
+        // a shorter fringe: the hard-edge map differs from a fringe of width w by order K² w L
+        let w = FRINGE / 4.0;
+        let result = straight(
+            &e,
+            Element::Solenoid {
+                length_m: l,
+                field_t: b,
+            },
+            l,
+            w,
+            |r| {
+                let (s1, d1) = ramp(r.z, w);
+                let (s2, d2) = ramp(r.z - l, w);
+                let bz = b * s1 * (1.0 - s2);
+                let dbz = b * (d1 * (1.0 - s2) - s1 * d2);
+                ([0.0; 3], [-r.x / 2.0 * dbz, -r.y / 2.0 * dbz, bz])
+            },
+        );
+        assert_converges("solenoid", result, 2.0e-3);
+    }
+
+    /// Drift: no field at all.
+    #[test]
+    fn drift_map_matches_tracking() {
+        let p = Motion::try_from_kinetic_energy(Species::DEUTERON, 5.0e6).unwrap();
+        let result = straight(&p, Element::Drift { length_m: 0.5 }, 0.5, FRINGE, |_| {
+            ([0.0; 3], [0.0; 3])
+        });
+        assert_converges("drift", result, 1.0e-3);
+    }
+
+    /// Thin gap: a uniform accelerating field E_z = V/g over a short gap g, the map compared with
+    /// drift(g/2) · gap · drift(g/2) between the margins.
+    #[test]
+    fn gap_map_matches_tracking() {
+        let p = proton();
+        let (g, v) = (1.0e-3, 2.0e6);
+        let field = Field(move |r: ThreeVector<f64>| {
+            let s =
+                ramp(r.z - g / 2.0, g).0 * 0.0 + if (0.0..g).contains(&r.z) { 1.0 } else { 0.0 };
+            ([0.0, 0.0, v / g * s], [0.0; 3])
+        });
+        let exit = ([0.0, g + MARGIN], [0.0, 1.0], [1.0, 0.0]);
+        let before = TransferMap::try_drift(&p, MARGIN + g / 2.0).unwrap();
+        let (gap, after) = TransferMap::try_gap(&p, v).unwrap();
+        let behind = TransferMap::try_drift(&after, MARGIN + g / 2.0).unwrap();
+        let total = before.then(&gap).then(&behind);
+        let per_metre = p.flight_time_per_metre();
+        let big = difference(
+            &measured(&p, &field, g / 200.0, exit, 1.0e-3),
+            &total,
+            per_metre,
+        );
+        let small = difference(
+            &measured(&p, &field, g / 200.0, exit, 1.0e-4),
+            &total,
+            per_metre,
+        );
+        // the gap's own length (1 mm against 100 mm of drift) bounds the agreement
+        assert_converges("gap", (big, small), 2.0e-2);
+    }
+
+    /// Sector dipole with pole faces: B = ∇(y B₀ F(X, Z)), F the wedge between the rotated faces
+    /// with 0.2 mm ramps (curl-free; its divergence is of second order in y), B₀ = sign(Q) Bρ θ/L;
+    /// the exit plane is normal to the reference's exit direction.
+    fn dipole(p: &Motion<f64>, l: f64, theta: f64, e1: f64, e2: f64, bound: f64) {
+        let rho = l / theta;
+        let b0 = p.species().charge().signum() * p.try_magnetic_rigidity().unwrap() / rho;
+        let n1 = [-e1.sin(), e1.cos()];
+        let centre = [-rho, 0.0];
+        let p2 = [centre[0] + rho * theta.cos(), rho * theta.sin()];
+        let n2 = [-(theta - e2).sin(), (theta - e2).cos()];
+        let field = Field(move |r: ThreeVector<f64>| {
+            let u1 = n1[0] * r.x + n1[1] * r.z;
+            let u2 = n2[0] * (p2[0] - r.x) + n2[1] * (p2[1] - r.z);
+            let (s1, d1) = ramp(u1, FRINGE);
+            let (s2, d2) = ramp(u2, FRINGE);
+            let f = s1 * s2;
+            let fx = d1 * n1[0] * s2 - s1 * d2 * n2[0];
+            let fz = d1 * n1[1] * s2 - s1 * d2 * n2[1];
+            ([0.0; 3], [r.y * b0 * fx, b0 * f, r.y * b0 * fz])
+        });
+        let d = [-theta.sin(), theta.cos()];
+        let q = [p2[0] + MARGIN * d[0], p2[1] + MARGIN * d[1]];
+        let xh = [theta.cos(), theta.sin()];
+        let drift = TransferMap::try_drift(p, MARGIN).unwrap();
+        let bend = TransferMap::try_sector_dipole(p, l, theta, e1, e2).unwrap();
+        let total = drift.then(&bend).then(&drift);
+        let per_metre = p.flight_time_per_metre();
+        let step = FRINGE / 128.0;
+        let big = difference(
+            &measured(p, &field, step, (q, d, xh), 1.0e-3),
+            &total,
+            per_metre,
+        );
+        let small = difference(
+            &measured(p, &field, step, (q, d, xh), 1.0e-4),
+            &total,
+            per_metre,
+        );
+        assert_converges(
+            &format!("dipole θ = {theta}, e = {e1}, {e2}"),
+            (big, small),
+            bound,
+        );
+    }
+
+    #[test]
+    fn sector_dipole_map_matches_tracking() {
+        let p = proton();
+        dipole(&p, 0.8, 0.4, 0.0, 0.0, 2.0e-3);
+        let e = Motion::try_from_kinetic_energy(Species::ELECTRON, 3.0e6).unwrap();
+        dipole(&e, 0.5, -0.3, 0.0, 0.0, 2.0e-3);
+    }
+
+    #[test]
+    fn dipole_pole_faces_match_tracking() {
+        let p = proton();
+        // the fringe's own length adds a vertical correction of order (fringe/ρ)
+        dipole(&p, 0.8, 0.4, 0.2, 0.2, 2.0e-3);
+        dipole(&p, 0.6, -0.3, -0.25, 0.15, 2.0e-3);
+    }
+}
+
+// ---- the line: sub-lines, transport, envelopes, apertures, periodic cells -------------------------
+
+mod line {
+    use fourforce::beamline::{Aperture, ApertureVerdict, BeamLine, BeamState, Element, Plane};
+    use fourforce::transfer::{Envelope, TransferMap, Twiss};
+    use fourforce::{Error, Motion, Species};
+
+    /// An invented 12 MeV deuteron line: a doublet, a bend, a gap, a solenoid, monitors.
+    fn line() -> BeamLine<f64, 16> {
+        BeamLine::try_from_elements(&[
+            Element::Drift { length_m: 0.5 },
+            Element::Quadrupole {
+                length_m: 0.2,
+                gradient_t_per_m: 3.0,
+            },
+            Element::Drift { length_m: 0.3 },
+            Element::Quadrupole {
+                length_m: 0.2,
+                gradient_t_per_m: -3.0,
+            },
+            Element::Monitor { id: 1 },
+            Element::SectorDipole {
+                length_m: 1.0,
+                angle_rad: 0.3,
+                entry_angle_rad: 0.1,
+                exit_angle_rad: 0.1,
+            },
+            Element::AcceleratingGap { voltage_v: 2.0e6 },
+            Element::Drift { length_m: 0.4 },
+            Element::Solenoid {
+                length_m: 0.3,
+                field_t: 0.8,
+            },
+            Element::ThinQuadrupole {
+                integrated_gradient_t: 0.1,
+            },
+            Element::ElectrostaticQuadrupole {
+                length_m: 0.1,
+                voltage_v: 5.0e3,
+                aperture_radius_m: 0.02,
+            },
+            Element::Monitor { id: 2 },
+        ])
+        .unwrap()
+    }
+
+    fn deuteron() -> Motion<f64> {
+        Motion::try_from_kinetic_energy(Species::DEUTERON, 12.0e6).unwrap()
+    }
+
+    fn close(a: &TransferMap<f64>, b: &TransferMap<f64>, tolerance: f64) -> bool {
+        let (a, b) = (a.to_array(), b.to_array());
+        a.iter()
+            .flatten()
+            .zip(b.iter().flatten())
+            .all(|(x, y)| (x - y).abs() <= tolerance * (1.0 + y.abs()))
+    }
+
+    /// The map of 0..j then j..n is the map of the line; energies flow through the gap.
+    #[test]
+    fn sub_line_maps_compose_to_the_line() {
+        let l = line();
+        let p = deuteron();
+        let (whole, end) = l.try_map(&p).unwrap();
+        assert_eq!(end.kinetic_energy(), 14.0e6);
+        for j in 0..=l.len() {
+            let (head, middle) = l.try_map_of(&p, 0..j).unwrap();
+            let (tail, last) = l.try_map_of(&p, j..l.len()).unwrap();
+            assert_eq!(last, end);
+            assert_eq!(middle.kinetic_energy(), if j > 6 { 14.0e6 } else { 12.0e6 });
+            assert!(close(&head.then(&tail), &whole, 4.0 * f64::EPSILON), "{j}");
+        }
+        #[allow(clippy::reversed_empty_ranges)] // a range that ends before it starts
+        let backwards = 3..2;
+        assert_eq!(l.try_map_of(&p, backwards).err(), Some(Error::OutOfBounds));
+        assert_eq!(l.try_map_of(&p, 0..13).err(), Some(Error::OutOfBounds));
+    }
+
+    /// Transporting particles of small amplitude reproduces the map to first order: the
+    /// difference divided by the amplitude shrinks with the amplitude (δ = 0 through the bend, whose
+    /// field follows the particle; δ ≠ 0 through a line without bend).
+    #[test]
+    fn state_transport_agrees_with_the_map_to_first_order() {
+        let p = deuteron();
+        let full = line();
+        let no_bend = BeamLine::<f64, 16>::try_from_elements(
+            &full
+                .elements()
+                .iter()
+                .copied()
+                .filter(|e| !matches!(e, Element::SectorDipole { .. }))
+                .collect::<Vec<_>>(),
+        )
+        .unwrap();
+        for (l, deltas) in [(&full, false), (&no_bend, true)] {
+            let (map, _) = l.try_map(&p).unwrap();
+            let reference = l.try_transport(BeamState::on_axis(p)).unwrap();
+            let mut previous = f64::INFINITY;
+            for a in [1.0e-3, 1.0e-4, 1.0e-5] {
+                let mut worst: f64 = 0.0;
+                for j in [0usize, 1, 2, 3, 5] {
+                    if j == 5 && !deltas {
+                        continue;
+                    }
+                    let mut v = [0.0; 6];
+                    v[j] = a;
+                    let motion =
+                        Motion::try_from_momentum(p.species(), p.momentum() * (1.0 + v[5]))
+                            .unwrap();
+                    let start = BeamState::try_new(motion, v[0], v[1], v[2], v[3], 0.0).unwrap();
+                    let end = l.try_transport(start).unwrap();
+                    let expected = map.apply(v);
+                    let got = [
+                        end.x(),
+                        end.x_slope(),
+                        end.y(),
+                        end.y_slope(),
+                        end.time() - reference.time(),
+                    ];
+                    for i in 0..4 {
+                        worst = worst.max((got[i] - expected[i]).abs() / a);
+                    }
+                    worst = worst.max((got[4] - expected[4]).abs() / a / p.flight_time_per_metre());
+                }
+                assert!(
+                    worst < previous / 5.0 || worst < 1.0e-9,
+                    "{a}: {worst} after {previous}"
+                );
+                previous = worst;
+            }
+            assert!(previous < 1.0e-4, "{previous}");
+        }
+    }
+
+    /// Envelopes: in a drift β(s) = β₀ + s²/β₀ from a waist, the size √(βε + (Dσ_δ)²) with the
+    /// dispersion of a bend; adiabatic damping of the emittance by p₀/p₁ through a gap
+    /// (Wiedemann, from memory).
+    #[test]
+    fn envelopes_follow_the_handbook_forms() {
+        let p = deuteron();
+        let waist = Twiss::try_new(2.0, 0.0).unwrap();
+        let beam = Envelope::try_new(waist, waist, [0.0; 4], 4.0e-6, 1.0e-6, 2.0e-3).unwrap();
+        let l = BeamLine::<f64, 4>::try_from_elements(&[
+            Element::Drift { length_m: 3.0 },
+            Element::SectorDipole {
+                length_m: 1.0,
+                angle_rad: 0.5,
+                entry_angle_rad: 0.0,
+                exit_angle_rad: 0.0,
+            },
+            Element::AcceleratingGap { voltage_v: 36.0e6 },
+        ])
+        .unwrap();
+        let steps: Vec<_> = l.envelopes(&p, beam).map(Result::unwrap).collect();
+        let (_, after_drift, _) = steps[0];
+        let beta = 2.0 + 9.0 / 2.0;
+        assert!((after_drift.try_twiss_x().unwrap().beta() - beta).abs() < 1e-14);
+        assert!((after_drift.size_x_m() - (beta * 4.0e-6_f64).sqrt()).abs() < 1e-17);
+        let (_, after_bend, _) = steps[1];
+        let r16 = 2.0 * (1.0 - 0.5_f64.cos());
+        assert!((after_bend.dispersion()[0] - r16).abs() < 1e-15);
+        let betatron = after_bend.emittance_x_m() * after_bend.try_twiss_x().unwrap().beta();
+        let size = (betatron + (r16 * 2.0e-3_f64).powi(2)).sqrt();
+        assert!((after_bend.size_x_m() / size - 1.0).abs() < 1e-14);
+        let (_, after_gap, reference) = steps[2];
+        let damping = p.momentum() / reference.momentum();
+        assert!((after_gap.emittance_x_m() / (4.0e-6 * damping) - 1.0).abs() < 1e-14);
+        assert!((after_gap.emittance_y_m() / (1.0e-6 * damping) - 1.0).abs() < 1e-14);
+        // a coupled line: the projected emittances exchange, the 4D beam is kept
+        let solenoid = BeamLine::<f64, 2>::try_from_elements(&[Element::Solenoid {
+            length_m: 0.5,
+            field_t: 2.0,
+        }])
+        .unwrap();
+        let (_, twisted, _) = solenoid.envelopes(&p, beam).next().unwrap().unwrap();
+        assert!(twisted.emittance_x_m() < 4.0e-6 && twisted.emittance_y_m() > 1.0e-6);
+    }
+
+    /// The aperture verdict names the first element and plane where the beam does not fit, fits
+    /// with the worst fill otherwise, and follows the energy: the same line at a lower energy
+    /// focuses harder (an invented case).
+    #[test]
+    fn aperture_verdict_names_the_element() {
+        let l = BeamLine::<f32, 8>::try_from_elements(&[
+            Element::Drift { length_m: 1.0 },
+            Element::Quadrupole {
+                length_m: 0.2,
+                gradient_t_per_m: 2.0,
+            },
+            Element::Drift { length_m: 2.0 },
+            Element::Monitor { id: 7 },
+        ])
+        .unwrap();
+        let waist = Twiss::try_new(1.0, 0.0).unwrap();
+        let beam = Envelope::try_new(waist, waist, [0.0; 4], 1.0e-6, 1.0e-6, 1.0e-3).unwrap();
+        let pipe = Aperture::try_new(0.01, 0.01).unwrap();
+        let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 50.0e6).unwrap();
+        match l.check_aperture(&p, beam, &[pipe; 4]) {
+            ApertureVerdict::Fits { worst_fill } => assert!(worst_fill > 0.0 && worst_fill < 1.0),
+            other => panic!("{other:?}"),
+        }
+        let tight = Aperture::try_new(1.0, 2.5e-3).unwrap();
+        match l.check_aperture(&p, beam, &[pipe, pipe, tight, pipe]) {
+            ApertureVerdict::Exceeds {
+                element,
+                plane,
+                size_m,
+                aperture_m,
+            } => {
+                assert_eq!((element, plane, aperture_m), (2, Plane::Vertical, 2.5e-3));
+                assert!(size_m > 2.5e-3);
+            }
+            other => panic!("{other:?}"),
+        }
+        // at 1 MeV the quadrupole over-focuses in x and the beam grows past the pipe
+        let slow = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 1.0e6).unwrap();
+        let verdict = l.check_aperture(&slow, beam, &[pipe; 4]);
+        assert!(
+            matches!(verdict, ApertureVerdict::Exceeds { element: 2, .. }),
+            "{verdict:?}"
+        );
+        assert_eq!(
+            l.check_aperture(&p, beam, &[pipe; 3]),
+            ApertureVerdict::Impossible(Error::OutOfBounds)
+        );
+    }
+
+    /// The periodic solution of a cell is reproduced after one turn through it; an unstable
+    /// cell and a coupled one are typed errors.
+    #[test]
+    fn periodic_cell_repeats_itself() {
+        let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 150.0e6).unwrap();
+        let cell = BeamLine::<f64, 8>::try_from_elements(&[
+            Element::Quadrupole {
+                length_m: 0.1,
+                gradient_t_per_m: 8.0,
+            },
+            Element::Drift { length_m: 1.0 },
+            Element::SectorDipole {
+                length_m: 1.0,
+                angle_rad: 0.2,
+                entry_angle_rad: 0.1,
+                exit_angle_rad: 0.1,
+            },
+            Element::Drift { length_m: 0.2 },
+            Element::Quadrupole {
+                length_m: 0.2,
+                gradient_t_per_m: -8.0,
+            },
+            Element::Drift { length_m: 1.2 },
+            Element::Quadrupole {
+                length_m: 0.1,
+                gradient_t_per_m: 8.0,
+            },
+        ])
+        .unwrap();
+        let (map, _) = cell.try_map(&p).unwrap();
+        let optics = map.try_periodic().unwrap();
+        let start = Envelope::try_lattice(optics.x, optics.y, optics.dispersion).unwrap();
+        let (_, end, _) = cell.envelopes(&p, start).last().unwrap().unwrap();
+        let (a, b) = (end.try_twiss_x().unwrap(), optics.x);
+        assert!((a.beta() / b.beta() - 1.0).abs() < 1e-12 && (a.alpha() - b.alpha()).abs() < 1e-12);
+        let (a, b) = (end.try_twiss_y().unwrap(), optics.y);
+        assert!((a.beta() / b.beta() - 1.0).abs() < 1e-12 && (a.alpha() - b.alpha()).abs() < 1e-12);
+        for (d, e) in end.dispersion().iter().zip(optics.dispersion) {
+            assert!((d - e).abs() < 1e-12, "{d} {e}");
+        }
+        assert!(optics.dispersion[0] > 0.0);
+        let strong = BeamLine::<f64, 4>::try_from_elements(&[
+            Element::ThinQuadrupole {
+                integrated_gradient_t: 20.0,
+            },
+            Element::Drift { length_m: 2.0 },
+            Element::ThinQuadrupole {
+                integrated_gradient_t: -20.0,
+            },
+            Element::Drift { length_m: 2.0 },
+        ])
+        .unwrap();
+        assert_eq!(
+            strong.try_map(&p).unwrap().0.try_periodic().err(),
+            Some(Error::Unstable)
+        );
+        let coupled = BeamLine::<f64, 2>::try_from_elements(&[Element::Solenoid {
+            length_m: 1.0,
+            field_t: 1.0,
+        }])
+        .unwrap();
+        assert_eq!(
+            coupled.try_map(&p).unwrap().0.try_periodic().err(),
+            Some(Error::Coupled)
+        );
+    }
+
+    /// f32 against f64 on the invented line: every entry within a few eps of the f32 precision
+    /// relative to the entry's row scale (the 50-digit comparison above is the sharper one).
+    #[test]
+    fn f32_follows_f64() {
+        let (m64, _) = line().try_map(&deuteron()).unwrap();
+        let elements: Vec<Element<f32>> = line()
+            .elements()
+            .iter()
+            .map(|e| match *e {
+                Element::Drift { length_m } => Element::Drift {
+                    length_m: length_m as f32,
+                },
+                Element::Quadrupole {
+                    length_m,
+                    gradient_t_per_m,
+                } => Element::Quadrupole {
+                    length_m: length_m as f32,
+                    gradient_t_per_m: gradient_t_per_m as f32,
+                },
+                Element::Monitor { id } => Element::Monitor { id },
+                Element::SectorDipole {
+                    length_m,
+                    angle_rad,
+                    entry_angle_rad,
+                    exit_angle_rad,
+                } => Element::SectorDipole {
+                    length_m: length_m as f32,
+                    angle_rad: angle_rad as f32,
+                    entry_angle_rad: entry_angle_rad as f32,
+                    exit_angle_rad: exit_angle_rad as f32,
+                },
+                Element::AcceleratingGap { voltage_v } => Element::AcceleratingGap {
+                    voltage_v: voltage_v as f32,
+                },
+                Element::Solenoid { length_m, field_t } => Element::Solenoid {
+                    length_m: length_m as f32,
+                    field_t: field_t as f32,
+                },
+                Element::ThinQuadrupole {
+                    integrated_gradient_t,
+                } => Element::ThinQuadrupole {
+                    integrated_gradient_t: integrated_gradient_t as f32,
+                },
+                Element::ElectrostaticQuadrupole {
+                    length_m,
+                    voltage_v,
+                    aperture_radius_m,
+                } => Element::ElectrostaticQuadrupole {
+                    length_m: length_m as f32,
+                    voltage_v: voltage_v as f32,
+                    aperture_radius_m: aperture_radius_m as f32,
+                },
+                other => panic!("{other:?}"),
+            })
+            .collect();
+        let l32 = BeamLine::<f32, 16>::try_from_elements(&elements).unwrap();
+        let p32 = Motion::try_from_kinetic_energy(Species::<f32>::DEUTERON, 12.0e6).unwrap();
+        let (m32, _) = l32.try_map(&p32).unwrap();
+        let (a, b) = (m32.to_array(), m64.to_array());
+        let mut worst: f64 = 0.0;
+        for (ra, rb) in a.iter().zip(&b) {
+            let scale = rb.iter().fold(0.0_f64, |s, x| s.max(x.abs()));
+            for (x, y) in ra.iter().zip(rb) {
+                worst = worst.max((f64::from(*x) - y).abs() / scale / f64::from(f32::EPSILON));
+            }
+        }
+        println!("f32 against f64: worst {worst:.2} eps of the row scale");
+        assert!(worst < 16.0, "{worst}");
+    }
+}
