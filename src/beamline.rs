@@ -64,7 +64,8 @@ use crate::compensated::two_sum;
 use crate::transfer::{Envelope, TransferMap};
 use crate::{Error, Motion, Real, optics, try_finite};
 
-/// The direction of a thin kick in the transverse plane.
+/// The direction of a thin kick in the transverse plane (a non-finite angle is refused by
+/// [`Element::try_check`]).
 ///
 /// # Examples
 /// ```
@@ -111,6 +112,10 @@ impl<T: Real> KickDirection<T> {
 }
 
 /// One element of a beam line.
+///
+/// Built directly from its fields, so any numbers fit in it: [`try_check`](Self::try_check)
+/// refuses the impossible ones, and [`BeamLine::try_push`] and [`try_apply`](Self::try_apply)
+/// call it, so an unchecked element never reaches a computation.
 ///
 /// # Examples
 /// ```
