@@ -839,17 +839,17 @@ mod line {
         let (_, after_drift, _) = steps[0];
         let beta = 2.0 + 9.0 / 2.0;
         assert!((after_drift.try_twiss_x().unwrap().beta() - beta).abs() < 1e-14);
-        assert!((after_drift.size_x_m() - (beta * 4.0e-6_f64).sqrt()).abs() < 1e-17);
+        assert!((after_drift.size_x() - (beta * 4.0e-6_f64).sqrt()).abs() < 1e-17);
         let (_, after_bend, _) = steps[1];
         let r16 = 2.0 * (1.0 - 0.5_f64.cos());
         assert!((after_bend.dispersion()[0] - r16).abs() < 1e-15);
-        let betatron = after_bend.emittance_x_m() * after_bend.try_twiss_x().unwrap().beta();
+        let betatron = after_bend.emittance_x() * after_bend.try_twiss_x().unwrap().beta();
         let size = (betatron + (r16 * 2.0e-3_f64).powi(2)).sqrt();
-        assert!((after_bend.size_x_m() / size - 1.0).abs() < 1e-14);
+        assert!((after_bend.size_x() / size - 1.0).abs() < 1e-14);
         let (_, after_gap, reference) = steps[2];
         let damping = p.momentum() / reference.momentum();
-        assert!((after_gap.emittance_x_m() / (4.0e-6 * damping) - 1.0).abs() < 1e-14);
-        assert!((after_gap.emittance_y_m() / (1.0e-6 * damping) - 1.0).abs() < 1e-14);
+        assert!((after_gap.emittance_x() / (4.0e-6 * damping) - 1.0).abs() < 1e-14);
+        assert!((after_gap.emittance_y() / (1.0e-6 * damping) - 1.0).abs() < 1e-14);
         // a coupled line: the projected emittances exchange, the 4D beam is kept
         let solenoid = BeamLine::<f64, 2>::try_from_elements(&[Element::Solenoid {
             length_m: 0.5,
@@ -857,7 +857,7 @@ mod line {
         }])
         .unwrap();
         let (_, twisted, _) = solenoid.envelopes(&p, beam).next().unwrap().unwrap();
-        assert!(twisted.emittance_x_m() < 4.0e-6 && twisted.emittance_y_m() > 1.0e-6);
+        assert!(twisted.emittance_x() < 4.0e-6 && twisted.emittance_y() > 1.0e-6);
     }
 
     /// The aperture verdict names the first element and plane where the beam does not fit, fits
