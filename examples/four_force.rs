@@ -8,7 +8,7 @@
 //!
 //! Run: `cargo run --example four_force`.
 
-use fourforce::{Boost, Error, FieldTensor, FourVector, Motion, Species, ThreeVector};
+use fourforce::{Boost, Error, FieldTensor, Motion, Species, ThreeVector};
 
 fn main() -> Result<(), Error> {
     let proton = Species::<f32>::PROTON;
@@ -16,7 +16,7 @@ fn main() -> Result<(), Error> {
     let pc = motion.momentum(); // eV
     let direction = ThreeVector::new(1.0_f32, 0.0, 0.0);
 
-    let u = FourVector::try_four_velocity_from_momentum(proton, direction * pc)?;
+    let u = motion.try_four_velocity(direction)?;
     let e_field = ThreeVector::new(5.0e4_f32, 2.0e5, 0.0); // V/m
     let b_field = ThreeVector::new(0.0_f32, 0.0, 1.4); // T
     let field = FieldTensor::try_from_fields(e_field, b_field)?;
