@@ -832,6 +832,7 @@ const fn bit(mask: u32, i: usize) -> bool {
 
 /// One corrector's column: the readings of both planes, x then y (2M values).
 #[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
 struct Column<T: Real, const M: usize>([[T; M]; 2]);
 
 impl<T: Real, const M: usize> AsRef<[T]> for Column<T, M> {
@@ -848,6 +849,7 @@ impl<T: Real, const M: usize> AsMut<[T]> for Column<T, M> {
 
 /// A decomposition's result: settings per metre of reading for a set of free correctors.
 #[derive(Clone, Copy, Debug)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
 struct Gains<T: Real, const M: usize, const C: usize> {
     /// `gain[j]`: the change of corrector `j`'s setting per metre of each reading (x then y);
     /// zero for held correctors and dropped monitors.
@@ -888,6 +890,7 @@ impl<T: Real, const M: usize, const C: usize> Gains<T, M, C> {
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Debug)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Orbit<T: Real, const M: usize, const C: usize, const N: usize = 4> {
     response: Response<T, M, C>,
     monitors: [Monitor<T>; M],

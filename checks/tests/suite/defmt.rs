@@ -75,6 +75,17 @@ public_types! {
     Plane => [fourforce::beamline::Plane],
     Aperture => [fourforce::beamline::Aperture<f32>, fourforce::beamline::Aperture<f64>],
     ApertureVerdict => [fourforce::beamline::ApertureVerdict<f32>, fourforce::beamline::ApertureVerdict<f64>],
+    // steering a whole line
+    Place => [fourforce::orbit::Place<f32>, fourforce::orbit::Place<f64>],
+    Kick => [fourforce::orbit::Kick],
+    Response => [fourforce::orbit::Response<f32, 8, 6>, fourforce::orbit::Response<f64, 8, 6>],
+    Monitor => [fourforce::orbit::Monitor<f32>, fourforce::orbit::Monitor<f64>],
+    Corrector => [fourforce::orbit::Corrector<f32>, fourforce::orbit::Corrector<f64>],
+    Tuning => [fourforce::orbit::Tuning<f32>, fourforce::orbit::Tuning<f64>],
+    State => [fourforce::orbit::State],
+    Outcome => [fourforce::orbit::Outcome],
+    Orbit => [fourforce::orbit::Orbit<f32, 8, 6>, fourforce::orbit::Orbit<f64, 8, 6>],
+    Calibration => [fourforce::orbit::Calibration<f32, 4>, fourforce::orbit::Calibration<f64, 4>],
 }
 
 /// `pub` types that are not reachable from outside the crate (none so far).
