@@ -1637,6 +1637,30 @@ fn add_column<T: Real, const M: usize, const C: usize>(
     }
 }
 
+/// Multiplication by `2^e`: one multiplication when `2^e` is a normal number, `scalbn`
+/// otherwise (exact either way, short of overflow or underflow of the result).
+#[derive(Clone, Copy)]
+struct PowerOfTwo<T: Real> {
+    factor: T,
+    exponent: i32,
+}
+
+fn power_of_two<T: Real>(exponent: i32) -> PowerOfTwo<T> {
+    let factor = T::ONE.scalbn(exponent);
+    PowerOfTwo { factor, exponent }
+}
+
+impl<T: Real> PowerOfTwo<T> {
+    #[inline]
+    fn apply(self, x: T) -> T {
+        if self.factor.is_finite() && self.factor >= T::MIN_POSITIVE {
+            x * self.factor
+        } else {
+            x.scalbn(self.exponent)
+        }
+    }
+}
+
 /// One block of a decomposition: its correctors, where it sits in the workspace, its rows and
 /// its power-of-two scale.
 #[derive(Clone, Copy)]
@@ -1743,9 +1767,10 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
         block.scale_exp = if top == i32::MIN { 0 } else { top };
         let end = block.offset + block.k;
         let cols = work.get_mut(block.offset..end).ok_or(Error::OutOfBounds)?;
+        let scale = power_of_two(-block.scale_exp);
         for column in cols.iter_mut() {
             for x in column.as_mut().iter_mut().take(block.rows) {
-                *x = x.scalbn(-block.scale_exp);
+                *x = scale.apply(*x);
             }
         }
         let vs = v.get_mut(block.offset..end).ok_or(Error::OutOfBounds)?;
@@ -1772,7 +1797,6 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
             continue;
         }
         let end = block.offset + block.k;
-        let cols = work.get(block.offset..end).ok_or(Error::OutOfBounds)?;
         let vs = v.get(block.offset..end).ok_or(Error::OutOfBounds)?;
         let ss = s.get(block.offset..end).ok_or(Error::OutOfBounds)?;
         let alpha = (tuning.regularisation * sigma_max).scalbn(-block.scale_exp);
@@ -1799,13 +1823,29 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
             };
             break;
         }
+        // u_l = f_l w_l in place, then for each corrector acc = Σ_l V[j][l] u_l (contiguous
+        // rows), scattered to its readings with the weights, the scale and −1/κ_j.
+        let cols = work.get_mut(block.offset..end).ok_or(Error::OutOfBounds)?;
+        for (column, f) in cols.iter_mut().zip(&factors) {
+            for x in column.as_mut().iter_mut().take(block.rows) {
+                *x *= *f;
+            }
+        }
+        let unscale = power_of_two(-block.scale_exp);
         let mut local = 0;
         for (j, g) in gains.iter_mut().enumerate() {
             if !in_block(block, j) {
                 continue;
             }
+            let mut acc = Column([[T::ZERO; M]; 2]);
+            for (vcol, u) in vs.iter().zip(cols.iter()) {
+                let coefficient = vcol.get(local).copied().unwrap_or(T::ZERO);
+                for (a, x) in acc.as_mut().iter_mut().zip(u.as_ref()).take(block.rows) {
+                    *a += coefficient * *x;
+                }
+            }
             let kappa = response.kick_per_setting.get(j).copied().unwrap_or(T::ONE);
-            let mut r = 0;
+            let mut rows = acc.as_ref().iter();
             for (p, plane) in g.0.iter_mut().enumerate() {
                 if !block.has_plane(p) {
                     continue;
@@ -1814,14 +1854,8 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
                     if !used(i, m) {
                         continue;
                     }
-                    let mut sum = T::ZERO;
-                    for ((vcol, f), wcol) in vs.iter().zip(&factors).zip(cols) {
-                        let vjl = vcol.get(local).copied().unwrap_or(T::ZERO);
-                        let wlr = wcol.as_ref().get(r).copied().unwrap_or(T::ZERO);
-                        sum += vjl * *f * wlr;
-                    }
-                    *x = -(sum * m.weight).scalbn(-block.scale_exp) / kappa;
-                    r += 1;
+                    let sum = rows.next().copied().unwrap_or(T::ZERO);
+                    *x = -unscale.apply(sum * m.weight) / kappa;
                 }
             }
             local += 1;

@@ -125,20 +125,46 @@ where
     Err(Error::NotConverged)
 }
 
-/// `Σ x_i y_i` over the first `n` entries (fewer if a slice is shorter).
+/// `Σ x_i y_i` over the first `n` entries (fewer if a slice is shorter), two at a time into two
+/// partial sums (half the loop's bookkeeping on a chip).
 #[inline]
 pub(crate) fn dot<T: Real>(x: &[T], y: &[T], n: usize) -> T {
-    let mut sum = T::ZERO;
-    for (a, b) in x.iter().zip(y.iter()).take(n) {
-        sum += *a * *b;
+    let n = n.min(x.len()).min(y.len());
+    let (x, y) = (x.get(..n).unwrap_or(&[]), y.get(..n).unwrap_or(&[]));
+    let (x2, y2) = (x.chunks_exact(2), y.chunks_exact(2));
+    let (rx, ry) = (x2.remainder(), y2.remainder());
+    let (mut s0, mut s1) = (T::ZERO, T::ZERO);
+    for (a, b) in x2.zip(y2) {
+        if let ([a0, a1], [b0, b1]) = (a, b) {
+            s0 += *a0 * *b0;
+            s1 += *a1 * *b1;
+        }
     }
-    sum
+    for (a, b) in rx.iter().zip(ry) {
+        s0 += *a * *b;
+    }
+    s0 + s1
 }
 
-/// `(x, y) ← (c x − s y, s x + c y)` over the first `n` entries.
+/// `(x, y) ← (c x − s y, s x + c y)` over the first `n` entries, two at a time.
 #[inline]
 fn rotate<T: Real>(x: &mut [T], y: &mut [T], n: usize, c: T, s: T) {
-    for (a, b) in x.iter_mut().zip(y.iter_mut()).take(n) {
+    let n = n.min(x.len()).min(y.len());
+    let (Some(x), Some(y)) = (x.get_mut(..n), y.get_mut(..n)) else {
+        return;
+    };
+    let mut x2 = x.chunks_exact_mut(2);
+    let mut y2 = y.chunks_exact_mut(2);
+    for (a, b) in (&mut x2).zip(&mut y2) {
+        if let ([a0, a1], [b0, b1]) = (a, b) {
+            let (p0, q0, p1, q1) = (*a0, *b0, *a1, *b1);
+            *a0 = c * p0 - s * q0;
+            *b0 = s * p0 + c * q0;
+            *a1 = c * p1 - s * q1;
+            *b1 = s * p1 + c * q1;
+        }
+    }
+    for (a, b) in x2.into_remainder().iter_mut().zip(y2.into_remainder()) {
         let (p, q) = (*a, *b);
         *a = c * p - s * q;
         *b = s * p + c * q;

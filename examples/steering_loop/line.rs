@@ -99,40 +99,41 @@ impl<T: Real> Places<T> {
         } else {
             return None;
         };
-        // the 0.6 m after the previous cell's monitor
-        let tail = |m: TransferMap<T>| -> Result<TransferMap<T>, Error> {
-            if cell == 0 {
-                Ok(m)
-            } else {
-                Ok(self.drift(T::from_f64(0.6))?.then(&m))
-            }
-        };
-        let six = T::from_f64(0.6);
-        Some((|| match part {
-            0 => Ok((
-                tail(self.quad(T::ONE)?.then(&self.drift(T::from_f64(0.4))?))?,
+        // (quadrupole sign, or 0 for a drift of the length in dm) in beam order; the 0.6 m after
+        // the previous cell's monitor comes first (integers: no run-time conversion of an f64)
+        let tail = if cell == 0 { 0 } else { 6 };
+        let (parts, place): (&[(i8, u8)], Place<T>) = match part {
+            0 => (
+                &[(0, tail), (1, 0), (0, 4)],
                 self.corrector(cell, KickDirection::Horizontal),
-            )),
-            1 => Ok((
-                self.drift(T::from_f64(0.2))?,
+            ),
+            1 => (
+                &[(0, 2)],
                 self.corrector(PER_PLANE + cell, KickDirection::Vertical),
-            )),
-            2 => Ok((
-                self.drift(six)?
-                    .then(&self.quad(T::NEG_ONE)?)
-                    .then(&self.drift(six)?),
+            ),
+            2 => (&[(0, 6), (-1, 0), (0, 6)], Place::Monitor(cell)),
+            _ => (
+                &[(0, tail), (1, 0), (0, 12), (-1, 0), (0, 6)],
                 Place::Monitor(cell),
-            )),
-            _ => Ok((
-                tail(
-                    self.quad(T::ONE)?
-                        .then(&self.drift(T::from_f64(1.2))?)
-                        .then(&self.quad(T::NEG_ONE)?)
-                        .then(&self.drift(six)?),
-                )?,
-                Place::Monitor(cell),
-            )),
-        })())
+            ),
+        };
+        Some(self.compose(parts).map(|m| (m, place)))
+    }
+
+    /// The map of quadrupoles (sign ±1) and drifts (sign 0, length in dm) in order, one at a
+    /// time.
+    fn compose(&self, parts: &[(i8, u8)]) -> Result<TransferMap<T>, Error> {
+        let mut map = TransferMap::IDENTITY;
+        for &(sign, dm) in parts {
+            let next = match sign {
+                0 if dm == 0 => continue,
+                0 => self.drift(T::from_u32(u32::from(dm)) / T::from_u32(10))?,
+                1 => self.quad(T::ONE)?,
+                _ => self.quad(T::NEG_ONE)?,
+            };
+            map = map.then(&next);
+        }
+        Ok(map)
     }
 }
 
@@ -203,10 +204,11 @@ pub fn try_free_orbit<T: Real>(
     for p in Places::new(motion, quad_scale) {
         let (map, place) = p?;
         v = map.apply(v);
-        if let Place::Monitor(i) = place {
-            if let Some(o) = out.get_mut(i) {
-                *o = [v[0], v[2]];
-            }
+        if let Some(o) = match place {
+            Place::Monitor(i) => out.get_mut(i),
+            Place::Corrector { .. } => None,
+        } {
+            *o = [v[0], v[2]];
         }
     }
     Ok(out)
