@@ -59,12 +59,12 @@ impl<T: Real> Pusher<T> for HigueraCary<T> {
     }
 
     #[inline]
-    fn push_beta_gamma(
+    fn beta_gamma_change(
         &self,
         beta_gamma: ThreeVector<T>,
         _gamma: T,
         field: &FieldTensor<T>,
-    ) -> (ThreeVector<T>, T) {
+    ) -> ThreeVector<T> {
         // ε = kick·E and τ = kick·cB: one factor for both halves of the field.
         let eps = field.e() * self.factors.kick;
         let tau = field.c_b() * self.factors.kick;
@@ -76,9 +76,7 @@ impl<T: Real> Pusher<T> for HigueraCary<T> {
         let t = tau * (T::ONE / gamma_bar);
         let s = T::TWO / (T::ONE + t.norm_squared());
         let u_prime = u_minus + u_minus.cross(t);
-        let u_plus = u_minus + u_prime.cross(t * s);
-        let u_new = u_plus + eps;
-        let gamma_new = (T::ONE + u_new.norm_squared()).sqrt();
-        (u_new, gamma_new)
+        // uⁿ⁺¹ − uⁿ = 2ε + (u⁺ − u⁻): the two half kicks and the rotation, never u minus u.
+        (eps + eps) + u_prime.cross(t * s)
     }
 }

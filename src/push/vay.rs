@@ -69,17 +69,19 @@ impl<T: Real> Pusher<T> for Vay<T> {
     }
 
     #[inline]
-    fn push_beta_gamma(
+    fn beta_gamma_change(
         &self,
         beta_gamma: ThreeVector<T>,
         gamma: T,
         field: &FieldTensor<T>,
-    ) -> (ThreeVector<T>, T) {
+    ) -> ThreeVector<T> {
         // ε = kick·E and τ = kick·cB: one factor for both halves of the field.
         let eps = field.e() * self.factors.kick;
         let tau = field.c_b() * self.factors.kick;
         let kicked = beta_gamma + eps + eps;
-        let u_prime = kicked + (beta_gamma * (T::ONE / gamma)).cross(tau);
+        // u' − uⁿ = 2ε + β × τ, formed on its own so that a small change keeps its accuracy.
+        let first_half = (eps + eps) + (beta_gamma * (T::ONE / gamma)).cross(tau);
+        let u_prime = beta_gamma + first_half;
         let tau_sq = tau.norm_squared();
         // u* = u'·τ = (uⁿ + 2ε)·τ exactly, since (β × τ)·τ = 0: without the rounding of β × τ.
         let u_star = kicked.dot(tau);
@@ -88,18 +90,17 @@ impl<T: Real> Pusher<T> for Vay<T> {
         let sigma = T::ONE + u_prime.norm_squared() - tau_sq;
         let t = tau * (T::ONE / implicit_gamma_squared(sigma, tau_sq + u_star * u_star).sqrt());
         let t_sq = t.norm_squared();
-        // (u' + (u'·t) t + u' × t) / (1 + t²). For |t| ≤ 1 written as u' plus a small correction,
-        // so that the rounding of 1/(1 + t²), the same at every step in a uniform field, does not
-        // bias |u|; for |t| > 1 as it stands, where u' is large and the correction would cancel it.
+        // uⁿ⁺¹ = (u' + (u'·t) t + u' × t) / (1 + t²). For |t| ≤ 1 as u' plus a small correction,
+        // so that the change is first_half + correction (no u − u), and the rounding of
+        // 1/(1 + t²), the same at every step in a uniform field, does not bias |u|; for |t| > 1,
+        // where u' is large and the correction would cancel it, as it stands minus uⁿ (the change
+        // is then of the order of u itself).
         let inv = T::ONE / (T::ONE + t_sq);
-        let u_new = if t_sq <= T::ONE {
+        if t_sq <= T::ONE {
             let correction = t * u_prime.dot(t) + u_prime.cross(t) - u_prime * t_sq;
-            u_prime + correction * inv
+            first_half + correction * inv
         } else {
-            (u_prime + t * u_prime.dot(t) + u_prime.cross(t)) * inv
-        };
-        // γⁿ⁺¹ from uⁿ⁺¹ (equal to the quartic's root in exact arithmetic): the particle's γ and
-        // u then always agree to a rounding, so u/γ never exceeds c by more than that.
-        (u_new, (T::ONE + u_new.norm_squared()).sqrt())
+            (u_prime + t * u_prime.dot(t) + u_prime.cross(t)) * inv - beta_gamma
+        }
     }
 }

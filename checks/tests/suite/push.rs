@@ -18,6 +18,9 @@ use crate::tolerance::{
     rel, v3,
 };
 use fourforce::push::{Boris, FieldSource, HigueraCary, Particle, Pusher, Vay};
+
+/// The compensated step in f32 against f64 (every kick kept).
+mod compensated;
 use fourforce::{FieldTensor, Real, Species, ThreeVector};
 
 /// `γβ` of a kinetic energy `t_ev` (eV): `pc/m = √(T(T + 2m))/m` (the [PDG] relations).

@@ -6,6 +6,7 @@
 #![no_std]
 #![no_main]
 
+#[allow(dead_code)] // shared by the binaries, each uses a part
 #[path = "../board.rs"]
 mod board;
 #[path = "../sqrt.rs"]
