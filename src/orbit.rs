@@ -81,7 +81,7 @@
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
-use crate::beamline::KickDirection;
+use crate::beamline::{BeamLine, Element, KickDirection};
 use crate::svd;
 use crate::transfer::TransferMap;
 use crate::{Error, Motion, Real, optics, try_finite};
@@ -211,7 +211,7 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
     ///     (TransferMap::try_drift(&p, 2.0)?, Place::Monitor(0)),
     /// ];
     /// let r = Response::<f64, 1, 1>::try_from_places(places)?;
-    /// // 2 m of drift: y moves 2 m per rad, θ = ∫B dl/Bρ with Bρ = 0.45763 T m
+    /// // 2 m of drift: y moves 2 m per rad, θ = ∫B dl/Bρ with Bρ = 0.458 16 T m
     /// assert!((r.reading_per_setting(0, 1, 0).unwrap() - 2.0 / p.try_magnetic_rigidity()?).abs() < 1e-14);
     /// assert_eq!(r.reading_per_setting(0, 0, 0), Some(0.0));
     /// # Ok::<(), fourforce::Error>(())
@@ -223,6 +223,65 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
         let mut response = Self::ZERO;
         response.try_fill(places)?;
         Ok(response)
+    }
+
+    /// The response of a beam line at the reference `start` (its state of motion entering the
+    /// line; the energy flows through the gaps): the line's monitors ([`Element::Monitor`]) are
+    /// monitors `0..M` and its kicks ([`Element::MagneticKick`], [`Element::ElectrostaticKick`])
+    /// correctors `0..C`, both in beam order; each element's map from [`Element::try_map`].
+    ///
+    /// # Errors
+    /// [`Error::OutOfBounds`] unless the line has exactly `M` monitors and `C` kicks; else as
+    /// [`Element::try_map`] and [`try_from_places`](Self::try_from_places).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::beamline::{BeamLine, Element, KickDirection};
+    /// use fourforce::orbit::Response;
+    /// use fourforce::{Motion, Species};
+    /// let line = BeamLine::<f64, 8>::try_from_elements(&[
+    ///     Element::MagneticKick { integrated_field_tm: 0.0, direction: KickDirection::Horizontal },
+    ///     Element::Drift { length_m: 1.0 },
+    ///     Element::ThinQuadrupole { integrated_gradient_t: 0.5 },
+    ///     Element::Drift { length_m: 1.0 },
+    ///     Element::Monitor { id: 7 },
+    /// ])?;
+    /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6)?;
+    /// let r = Response::<f64, 1, 1>::try_from_line(&line, &p)?;
+    /// // R12 of drift–lens–drift: 2 L − L²/f, 1/f = ∫G dl/Bρ
+    /// let brho = p.try_magnetic_rigidity()?;
+    /// let want = (2.0 - 0.5 / brho) / brho;
+    /// assert!((r.reading_per_setting(0, 0, 0).unwrap() - want).abs() < 1e-15);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_from_line<const L: usize>(
+        line: &BeamLine<T, L>,
+        start: &Motion<T>,
+    ) -> Result<Self, Error> {
+        let mut response = Self::ZERO;
+        response.try_fill_from_line(line, start)?;
+        Ok(response)
+    }
+
+    /// [`try_from_line`](Self::try_from_line) in place.
+    fn try_fill_from_line<const L: usize>(
+        &mut self,
+        line: &BeamLine<T, L>,
+        start: &Motion<T>,
+    ) -> Result<(), Error> {
+        let mut error = None;
+        let places = LinePlaces {
+            elements: line.elements().iter(),
+            reference: *start,
+            monitors: 0,
+            correctors: 0,
+            error: &mut error,
+        };
+        let filled = self.try_fill(places);
+        match error {
+            Some(e) => Err(e),
+            None => filled,
+        }
     }
 
     /// Every entry zero (no corrector moves any reading; every `κ` zero): the state of an
@@ -389,6 +448,65 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
             (false, true) => Plane::Y,
             _ => Plane::X,
         }
+    }
+}
+
+/// A beam line's monitors and kicks as places, each with the map from the place before; the
+/// first error of an element's map ends the sequence and is kept.
+struct LinePlaces<'a, T: Real> {
+    elements: core::slice::Iter<'a, Element<T>>,
+    reference: Motion<T>,
+    monitors: usize,
+    correctors: usize,
+    error: &'a mut Option<Error>,
+}
+
+impl<T: Real> Iterator for LinePlaces<'_, T> {
+    type Item = (TransferMap<T>, Place<T>);
+
+    fn next(&mut self) -> Option<Self::Item> {
+        let mut map = TransferMap::IDENTITY;
+        for element in self.elements.by_ref() {
+            let place = match *element {
+                Element::Monitor { .. } => {
+                    self.monitors += 1;
+                    Some(Place::Monitor(self.monitors - 1))
+                }
+                Element::MagneticKick { direction, .. } => {
+                    self.correctors += 1;
+                    Some(Place::Corrector {
+                        index: self.correctors - 1,
+                        kick: Kick::Magnetic,
+                        direction,
+                        motion: self.reference,
+                    })
+                }
+                Element::ElectrostaticKick { direction, .. } => {
+                    self.correctors += 1;
+                    Some(Place::Corrector {
+                        index: self.correctors - 1,
+                        kick: Kick::Electrostatic,
+                        direction,
+                        motion: self.reference,
+                    })
+                }
+                _ => None,
+            };
+            if let Some(place) = place {
+                return Some((map, place));
+            }
+            match element.try_map(&self.reference) {
+                Ok((m, after)) => {
+                    map = map.then(&m);
+                    self.reference = after;
+                }
+                Err(e) => {
+                    *self.error = Some(e);
+                    return None;
+                }
+            }
+        }
+        None
     }
 }
 
@@ -1223,6 +1341,54 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         self.loaded = false;
         self.invalidate();
         self.response.try_fill(places)?;
+        let next = if was_loaded {
+            self.rescaled(&old, &self.response.kick_per_setting, settings)?
+        } else {
+            self.clamped(settings)?
+        };
+        Ok(self.loaded_with(next, settings))
+    }
+
+    /// As [`try_set_places`](Self::try_set_places) for a beam line at the reference `start` (see
+    /// [`Response::try_from_line`]): the response at a new energy computed in place from the
+    /// line's maps, the set points rescaled to keep every kick.
+    ///
+    /// # Errors
+    /// As [`Response::try_from_line`] and [`try_set_response`](Self::try_set_response); after an
+    /// error the loop has no response (a step is [`Error::Empty`]) and the set points are
+    /// unchanged.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::beamline::{BeamLine, Element, KickDirection};
+    /// use fourforce::orbit::{Corrector, Monitor, Orbit, Tuning};
+    /// use fourforce::{Motion, Species};
+    /// let line = BeamLine::<f32, 4>::try_from_elements(&[
+    ///     Element::MagneticKick { integrated_field_tm: 0.0, direction: KickDirection::Vertical },
+    ///     Element::Drift { length_m: 2.0 },
+    ///     Element::Monitor { id: 1 },
+    /// ])?;
+    /// let mut orbit = Orbit::<f32, 1, 1>::new();
+    /// orbit.try_configure([Monitor::try_new(0.01, 1.0)?], [Corrector::try_new(-0.01, 0.01, 0.01)?], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6)?;
+    /// let mut s = [0.0];
+    /// orbit.try_set_line(&line, &p, &mut s)?;
+    /// orbit.try_step(&[[0.0, 1.0e-3]], &mut s)?;
+    /// // 1 mm at 2 m per rad: −0.5 mrad, times Bρ = 0.458 16 T m
+    /// assert!((s[0] + 0.5e-3 * p.try_magnetic_rigidity()?).abs() < 1e-10);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    pub fn try_set_line<const L: usize>(
+        &mut self,
+        line: &BeamLine<T, L>,
+        start: &Motion<T>,
+        settings: &mut [T; C],
+    ) -> Result<u32, Error> {
+        let old = self.response.kick_per_setting;
+        let was_loaded = self.loaded;
+        self.loaded = false;
+        self.invalidate();
+        self.response.try_fill_from_line(line, start)?;
         let next = if was_loaded {
             self.rescaled(&old, &self.response.kick_per_setting, settings)?
         } else {
