@@ -25,8 +25,8 @@
 //! `cutoff · σ_max` are dropped in both cases. The decomposition is the one-sided Jacobi SVD of
 //! the crate's private `svd` module; it is computed only when the set of monitors in use, the
 //! response (the energy) or the set of correctors held at a limit changes, and its result is kept
-//! as a gain matrix `G` (settings per metre of reading). Every other iteration costs one
-//! matrix–vector product: `Δs = g G b` with the loop gain `0 < g < 2`. With an exact model the
+//! as a gain matrix `G` (kick angle per metre of reading). Every other iteration costs one
+//! matrix–vector product: `Δs = g G b / κ` with the loop gain `0 < g < 2`. With an exact model the
 //! offsets in the range of `R` shrink by `(1 − g)` per iteration (with `α = 0`).
 //!
 //! When the line does not couple the planes (every corrector moves only x or only y readings), the
@@ -1031,6 +1031,9 @@ pub struct Orbit<T: Real, const M: usize, const C: usize, const N: usize = 4> {
     work: [Column<T, M>; C],
     v: [[T; C]; C],
     s: [T; C],
+    /// `1/κ_j`: the gains are kept in kick angles, so a new energy with the same optics (the
+    /// same `R`) needs no new decomposition.
+    setting_per_kick: [T; C],
     /// Monitors, correctors and tuning set, and a response loaded.
     configured: bool,
     loaded: bool,
@@ -1090,6 +1093,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             work: [Column([[T::ZERO; M]; 2]); C],
             v: [[T::ZERO; C]; C],
             s: [T::ZERO; C],
+            setting_per_kick: [T::ZERO; C],
             configured: false,
             loaded: false,
         }
@@ -1158,8 +1162,11 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         let mut orbit = Self::new();
         orbit.try_configure(monitors, correctors, tuning)?;
         orbit.response = response;
-        orbit.loaded = true;
-        orbit.set_reach();
+        orbit.loaded_with(
+            (orbit.clamped(&[T::ZERO; C])?.0, 0),
+            &mut [T::ZERO; C],
+            false,
+        );
         Ok(orbit)
     }
 
@@ -1263,7 +1270,9 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
 
     /// Loads the response at a new energy and rescales the set points `settings` by
     /// `κ_old/κ_new`, so every kick stays the same; a rescaled set point outside its corrector's
-    /// range is held at the limit (bit `j` of the returned mask). The next step decomposes again.
+    /// range is held at the limit (bit `j` of the returned mask). The next step decomposes again,
+    /// unless only `κ` changed (the same response in kick angles: a drift-only line, or optics
+    /// that follow the energy); then the new `κ` is all it takes.
     ///
     /// # Errors
     /// [`Error::NonFinite`] for a non-finite setting or a rescaled one that overflows; nothing is
@@ -1298,8 +1307,9 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         } else {
             self.clamped(settings)?
         };
+        let same_optics = self.loaded && self.response.per_kick == response.per_kick;
         self.response = *response;
-        Ok(self.loaded_with(next, settings))
+        Ok(self.loaded_with(next, settings, same_optics))
     }
 
     /// As [`try_set_response`](Self::try_set_response), the response computed in place from the
@@ -1346,7 +1356,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         } else {
             self.clamped(settings)?
         };
-        Ok(self.loaded_with(next, settings))
+        Ok(self.loaded_with(next, settings, false))
     }
 
     /// As [`try_set_places`](Self::try_set_places) for a beam line at the reference `start` (see
@@ -1394,7 +1404,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         } else {
             self.clamped(settings)?
         };
-        Ok(self.loaded_with(next, settings))
+        Ok(self.loaded_with(next, settings, false))
     }
 
     /// The set points rescaled by `κ_old/κ_new` and clamped to the ranges, with the mask of
@@ -1437,11 +1447,27 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         Ok((next, held))
     }
 
-    fn loaded_with(&mut self, (next, held): ([T; C], u32), settings: &mut [T; C]) -> u32 {
+    /// Takes the loaded response into use: `1/κ`, the reach of each corrector, and a new
+    /// decomposition unless the optics (the response in kick angles) are the same.
+    fn loaded_with(
+        &mut self,
+        (next, held): ([T; C], u32),
+        settings: &mut [T; C],
+        same_optics: bool,
+    ) -> u32 {
         *settings = next;
         self.loaded = true;
-        self.set_reach();
-        self.invalidate();
+        for (inverse, kappa) in self
+            .setting_per_kick
+            .iter_mut()
+            .zip(&self.response.kick_per_setting)
+        {
+            *inverse = T::ONE / *kappa;
+        }
+        if !same_optics {
+            self.set_reach();
+            self.invalidate();
+        }
         held
     }
 
@@ -1509,7 +1535,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         }
         let g = self.tuning.gain;
         let mut step = [T::ZERO; C];
-        apply_gains(&self.full, &b, g, &mut step);
+        apply_gains(&self.full, &b, g, &self.setting_per_kick, &mut step);
         let mut next = *settings;
         let mut moved = 0_u32;
         let mut held = self.limit(settings, &mut step, &mut outcome, 0, &mut next, &mut moved)?;
@@ -1542,7 +1568,13 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             }
             let mut free_step = [T::ZERO; C];
             if self.restricted.hold == State::Correcting {
-                apply_gains(&self.restricted, &rest, g, &mut free_step);
+                apply_gains(
+                    &self.restricted,
+                    &rest,
+                    g,
+                    &self.setting_per_kick,
+                    &mut free_step,
+                );
             }
             for (j, (ds, fs)) in step.iter_mut().zip(free_step).enumerate() {
                 if !bit(held, j) {
@@ -1751,15 +1783,21 @@ fn apply_gains<T: Real, const M: usize, const C: usize>(
     gains: &Gains<T, M, C>,
     b: &Column<T, M>,
     g: T,
+    setting_per_kick: &[T; C],
     step: &mut [T; C],
 ) {
-    for ((ds, row), plane) in step.iter_mut().zip(&gains.gain).zip(&gains.plane) {
+    for (((ds, row), plane), inverse) in step
+        .iter_mut()
+        .zip(&gains.gain)
+        .zip(&gains.plane)
+        .zip(setting_per_kick)
+    {
         let sum = match plane {
             Plane::X => dot(&row.0[0], &b.0[0]),
             Plane::Y => dot(&row.0[1], &b.0[1]),
             Plane::Both => dot(&row.0[0], &b.0[0]) + dot(&row.0[1], &b.0[1]),
         };
-        *ds = g * sum;
+        *ds = g * sum * *inverse;
     }
 }
 
@@ -1949,7 +1987,7 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
             }
         }
     }
-    // 2. Rank and hold, then the gains: G[j][r] = −(1/κ_j) Σ_l V[j][l] f_l W[r][l] w_r 2^-e with
+    // 2. Rank and hold, then the gains (kick angles): G[j][r] = −Σ_l V[j][l] f_l W[r][l] w_r 2^-e with
     //    f_l = 1/(σ_l² + (α σ_max)²), in the block's scaled units.
     // Written in place (no copy of the C × 2M gains on the stack).
     out.free = None;
@@ -2010,7 +2048,6 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
                     *a += coefficient * *x;
                 }
             }
-            let kappa = response.kick_per_setting.get(j).copied().unwrap_or(T::ONE);
             let mut rows = acc.as_ref().iter();
             for (p, plane) in g.0.iter_mut().enumerate() {
                 if !block.has_plane(p) {
@@ -2021,7 +2058,7 @@ fn decompose_into<T: Real, const M: usize, const C: usize>(
                         continue;
                     }
                     let sum = rows.next().copied().unwrap_or(T::ZERO);
-                    *x = -unscale.apply(sum * m.weight) / kappa;
+                    *x = -unscale.apply(sum * m.weight);
                 }
             }
             local += 1;

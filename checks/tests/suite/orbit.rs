@@ -508,8 +508,8 @@ fn under_determined_holds() {
     assert_eq!(out.monitors_in_use(), 2);
 }
 
-/// A new energy rescales every set point by κ_old/κ_new (the kicks stay), and the response is
-/// decomposed again.
+/// A new energy rescales every set point by κ_old/κ_new (the kicks stay); the response is
+/// decomposed again only when the optics changed.
 #[test]
 fn energy_step_rescales_set_points() {
     let mut rng = Rng(14);
@@ -541,6 +541,25 @@ fn energy_step_rescales_set_points() {
             assert!((after[i][p] - before[i][p]).abs() <= 8.0 * f64::EPSILON * scale);
         }
     }
+    // Only κ changed (the same response in kick angles): no new decomposition, and the step is
+    // the one a loop built at the new energy takes.
+    let mut fresh = orbit_f64(r, k2, Tuning::try_new(1.0, 0.0, 1e-12).unwrap());
+    let mut s3 = s2;
+    let (b, out) = simulate(&mut orbit, &start, &mut s2);
+    assert!(!out.decomposed());
+    fresh.try_step(&b, &mut s3).unwrap();
+    for j in 0..C {
+        assert!(
+            (s2[j] - s3[j]).abs() <= 4.0 * f64::EPSILON * s3[j].abs().max(1e-6),
+            "{j}"
+        );
+    }
+    // New optics: decomposed again.
+    let mut r2 = r;
+    r2[0][0][M - 1] *= 1.01;
+    orbit
+        .try_set_response(&Response::try_new(r2, k2).unwrap(), &mut s2)
+        .unwrap();
     let (_, out) = simulate(&mut orbit, &start, &mut s2);
     assert!(out.decomposed());
     assert_eq!(
