@@ -46,10 +46,17 @@ pub(crate) fn two_prod<T: Real>(a: T, b: T) -> (T, T) {
 /// `a + b = s + e` exactly (Knuth's two-sum, no ordering needed).
 #[inline]
 pub(crate) fn two_sum<T: Real>(a: T, b: T) -> (T, T) {
+    let (s, e) = two_sum_unguarded(a, b);
+    (s, if e.is_finite() { e } else { T::ZERO })
+}
+
+/// [`two_sum`] without the guard on the error term: `e` is NaN when `a + b` overflows. For loops
+/// that check their results anyway (the pushers' compensated step checks every carry).
+#[inline(always)]
+pub(crate) fn two_sum_unguarded<T: Real>(a: T, b: T) -> (T, T) {
     let s = a + b;
     let bb = s - a;
-    let e = (a - (s - bb)) + (b - bb);
-    (s, if e.is_finite() { e } else { T::ZERO })
+    (s, (a - (s - bb)) + (b - bb))
 }
 
 /// A running sum carried as `sum + correction`.

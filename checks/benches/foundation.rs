@@ -185,7 +185,80 @@ macro_rules! bench_precision {
     }};
 }
 
+/// The four-force written by hand from γ and β: `K = γ(Q E·β, Q(E + β × cB))` (eV/m), on arrays.
+#[inline]
+fn hand_four_force<T: Real>(q: T, gamma: T, beta: &[T; 3], e: &[T; 3], cb: &[T; 3]) -> [T; 4] {
+    let qg = q * gamma;
+    [
+        qg * (e[0] * beta[0] + e[1] * beta[1] + e[2] * beta[2]),
+        qg * (e[0] + beta[1] * cb[2] - beta[2] * cb[1]),
+        qg * (e[1] + beta[2] * cb[0] - beta[0] * cb[2]),
+        qg * (e[2] + beta[0] * cb[1] - beta[1] * cb[0]),
+    ]
+}
+
+/// The smallest time per call of `f` over `rounds` rounds of `calls` calls, in ns.
+fn min_ns(rounds: u32, calls: u32, mut f: impl FnMut()) -> f64 {
+    let mut best = f64::INFINITY;
+    for _ in 0..rounds {
+        let start = std::time::Instant::now();
+        for _ in 0..calls {
+            f();
+        }
+        best = best.min(start.elapsed().as_secs_f64() * 1e9 / f64::from(calls));
+    }
+    best
+}
+
+/// `FieldTensor::four_force` against the hand-written `γ(Q E·β, Q(E + β × cB))` over a batch of 256
+/// four-velocities, measured in alternation and compared by their fastest rounds (robust on a
+/// loaded machine): printed as `ratio four-force <precision> <r>`.
+fn four_force_ratio<T: Real>(name: &str) {
+    let f = FieldTensor::<T>::try_from_fields(
+        ThreeVector::new(T::from_f64(1.2e5), T::from_f64(-3.4e5), T::from_f64(0.7e5)),
+        ThreeVector::new(T::from_f64(0.02), T::from_f64(0.5), T::from_f64(-0.3)),
+    )
+    .unwrap();
+    let (e, cb) = (f.e().to_array(), f.c_b().to_array());
+    let q = T::from_f64(-1.0);
+    let us: Vec<FourVector<T>> = (0..256_u16)
+        .map(|i| {
+            let b = T::from_f64(f64::from(i) / 512.0);
+            FourVector::try_four_velocity(ThreeVector::new(b, -b / T::TWO, T::from_f64(0.25)))
+                .unwrap()
+        })
+        .collect();
+    let gb: Vec<(T, [T; 3])> = us
+        .iter()
+        .map(|u| (u.time, (u.space / u.time).to_array()))
+        .collect();
+    let mut out = vec![[T::ZERO; 4]; 256];
+    let (mut ours, mut hand) = (f64::MAX, f64::MAX);
+    for _ in 0..5 {
+        ours = ours.min(min_ns(40, 200, || {
+            for (o, u) in out.iter_mut().zip(black_box(&us)) {
+                *o = black_box(&f).four_force(q, *u).to_array();
+            }
+            black_box(&out);
+        }));
+        hand = hand.min(min_ns(40, 200, || {
+            for (o, (g, b)) in out.iter_mut().zip(black_box(&gb)) {
+                *o = hand_four_force(q, *g, b, black_box(&e), black_box(&cb));
+            }
+            black_box(&out);
+        }));
+    }
+    println!(
+        "ratio four-force {name} {:.2} ({:.2} ns / {:.2} ns per four-velocity)",
+        ours / hand,
+        ours / 256.0,
+        hand / 256.0
+    );
+}
+
 fn foundation(c: &mut Criterion) {
+    four_force_ratio::<f32>("f32");
+    four_force_ratio::<f64>("f64");
     bench_precision!(c, f32, "f32");
     bench_precision!(c, f64, "f64");
 }

@@ -90,7 +90,7 @@ pub use higuera_cary::HigueraCary;
 pub use source::{FieldSource, SumOfFields};
 pub use vay::Vay;
 
-use crate::compensated::two_sum;
+use crate::compensated::{two_sum, two_sum_unguarded};
 use crate::{Error, FieldTensor, FourVector, Motion, Real, Species, ThreeVector};
 
 /// The state of one particle: position (m), `u = γβ` (the spatial four-velocity in units of c),
@@ -433,16 +433,16 @@ impl<T: Real> Particle<T> {
 }
 
 /// `a + (b + carry)` componentwise as Knuth's two-sum: the rounded sum and its exact error, the
-/// carry of the next addition.
+/// carry of the next addition (not guarded: a non-finite carry is caught by the caller's check).
 #[inline(always)]
 fn compensated_add<T: Real>(
     a: ThreeVector<T>,
     b: ThreeVector<T>,
     carry: ThreeVector<T>,
 ) -> (ThreeVector<T>, ThreeVector<T>) {
-    let (x, ex) = two_sum(a.x, b.x + carry.x);
-    let (y, ey) = two_sum(a.y, b.y + carry.y);
-    let (z, ez) = two_sum(a.z, b.z + carry.z);
+    let (x, ex) = two_sum_unguarded(a.x, b.x + carry.x);
+    let (y, ey) = two_sum_unguarded(a.y, b.y + carry.y);
+    let (z, ez) = two_sum_unguarded(a.z, b.z + carry.z);
     (ThreeVector::new(x, y, z), ThreeVector::new(ex, ey, ez))
 }
 
@@ -458,9 +458,9 @@ fn compensated_add2<T: Real>(
     low: ThreeVector<T>,
 ) -> (ThreeVector<T>, ThreeVector<T>, ThreeVector<T>) {
     let one = |u: T, b: T, c: T, l: T| {
-        let (s, e) = two_sum(c, b);
-        let (hi, e1) = two_sum(u, s);
-        let (c_new, l_new) = two_sum(e1, e + l);
+        let (s, e) = two_sum_unguarded(c, b);
+        let (hi, e1) = two_sum_unguarded(u, s);
+        let (c_new, l_new) = two_sum_unguarded(e1, e + l);
         (hi, c_new, l_new)
     };
     let (x, cx, lx) = one(u.x, change.x, carry.x, low.x);
@@ -778,7 +778,13 @@ pub trait Pusher<T: Real>: Sized {
         let drift = beta_gamma * (self.factors().c_dt / gamma);
         let (position, position_carry) =
             compensated_add(particle.position, drift, particle.position_carry);
-        if !(beta_gamma.is_finite() && position.is_finite() && gamma.is_finite()) {
+        // One check for every carry: a NaN or an infinity anywhere makes the sum non-finite.
+        let carries = beta_gamma_carry + beta_gamma_carry_low + position_carry;
+        if !(beta_gamma.is_finite()
+            && position.is_finite()
+            && gamma.is_finite()
+            && (carries.x + carries.y + carries.z).is_finite())
+        {
             return Err(Error::Overflow);
         }
         particle.beta_gamma = beta_gamma;
@@ -897,7 +903,11 @@ pub trait Pusher<T: Real>: Sized {
             particle.beta_gamma_carry_low,
         );
         let gamma = gamma_of(beta_gamma, beta_gamma_carry);
-        if !(beta_gamma.is_finite() && gamma.is_finite()) {
+        let carries = beta_gamma_carry + beta_gamma_carry_low;
+        if !(beta_gamma.is_finite()
+            && gamma.is_finite()
+            && (carries.x + carries.y + carries.z).is_finite())
+        {
             return Err(Error::Overflow);
         }
         particle.beta_gamma = beta_gamma;
@@ -939,7 +949,7 @@ pub trait Pusher<T: Real>: Sized {
             particle.beta_gamma_carry_low,
         );
         let gamma = gamma_of(hi, lo);
-        if hi.is_finite() && gamma.is_finite() {
+        if hi.is_finite() && gamma.is_finite() && (lo.x + lo.y + lo.z).is_finite() {
             Ok((hi, gamma))
         } else {
             Err(Error::Overflow)
