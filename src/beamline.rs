@@ -420,15 +420,22 @@ impl<T: Real> Element<T> {
     /// assert!(map.to_array()[1][1] < 1.0); // adiabatic damping of x'
     /// # Ok::<(), fourforce::Error>(())
     /// ```
+    #[inline]
     pub fn try_map(&self, reference: &Motion<T>) -> Result<(TransferMap<T>, Motion<T>), Error> {
         let r = reference;
-        let map = match self.try_check()? {
-            Self::Drift { length_m } | Self::HardEdgeDipole { length_m, .. } => {
+        // the constructors check their own parameters; only the thin kicks, whose map is the
+        // identity, are checked here
+        let map = match *self {
+            Self::Drift { length_m } => TransferMap::try_drift(r, length_m)?,
+            Self::HardEdgeDipole { length_m, .. } => {
+                self.try_check()?;
                 TransferMap::try_drift(r, length_m)?
             }
-            Self::MagneticKick { .. } | Self::ElectrostaticKick { .. } | Self::Monitor { .. } => {
+            Self::MagneticKick { .. } | Self::ElectrostaticKick { .. } => {
+                self.try_check()?;
                 TransferMap::IDENTITY
             }
+            Self::Monitor { .. } => TransferMap::IDENTITY,
             Self::AcceleratingGap { voltage_v } => return TransferMap::try_gap(r, voltage_v),
             Self::Quadrupole {
                 length_m,
@@ -464,6 +471,68 @@ impl<T: Real> Element<T> {
             }
         };
         Ok((map, *reference))
+    }
+
+    /// `map = (this element's map) · map` and the reference moved past the element, in place
+    /// (the line's loop: no copy of a map per element on the chip).
+    #[inline]
+    fn try_compose(
+        &self,
+        map: &mut TransferMap<T>,
+        reference: &mut Motion<T>,
+    ) -> Result<(), Error> {
+        let r = &*reference;
+        let m = match *self {
+            Self::Drift { length_m } => TransferMap::try_drift(r, length_m)?,
+            Self::Quadrupole {
+                length_m,
+                gradient_t_per_m,
+            } => TransferMap::try_quadrupole(r, length_m, gradient_t_per_m)?,
+            Self::ThinQuadrupole {
+                integrated_gradient_t,
+            } => TransferMap::try_thin_quadrupole(r, integrated_gradient_t)?,
+            Self::ElectrostaticQuadrupole {
+                length_m,
+                voltage_v,
+                aperture_radius_m,
+            } => TransferMap::try_electrostatic_quadrupole(
+                r,
+                length_m,
+                voltage_v,
+                aperture_radius_m,
+            )?,
+            Self::SectorDipole {
+                length_m,
+                angle_rad,
+                entry_angle_rad,
+                exit_angle_rad,
+            } => TransferMap::try_sector_dipole(
+                r,
+                length_m,
+                angle_rad,
+                entry_angle_rad,
+                exit_angle_rad,
+            )?,
+            Self::Solenoid { length_m, field_t } => {
+                TransferMap::try_solenoid(r, length_m, field_t)?
+            }
+            Self::Monitor { .. } => return Ok(()),
+            Self::AcceleratingGap { voltage_v } => {
+                let (m, after) = TransferMap::try_gap(r, voltage_v)?;
+                *reference = after;
+                m
+            }
+            Self::MagneticKick { .. } | Self::ElectrostaticKick { .. } => {
+                self.try_check()?;
+                return Ok(());
+            }
+            Self::HardEdgeDipole { length_m, .. } => {
+                self.try_check()?;
+                TransferMap::try_drift(r, length_m)?
+            }
+        };
+        map.then_in_place(&m);
+        Ok(())
     }
 }
 
@@ -1062,9 +1131,7 @@ impl<T: Real, const N: usize> BeamLine<T, N> {
         }
         let mut map = TransferMap::IDENTITY;
         for element in inside {
-            let (m, after) = element.try_map(&r)?;
-            map = map.then(&m);
-            r = after;
+            element.try_compose(&mut map, &mut r)?;
         }
         Ok((map.try_check()?, r))
     }

@@ -156,6 +156,13 @@ pub trait Real:
     fn cos(self) -> Self;
     /// Tangent (radians).
     fn tan(self) -> Self;
+    /// Sine and cosine together (radians), in the working precision only: in `f32` a reduction
+    /// by `π/2` held in three `f32` parts (Cody and Waite) and polynomials on `[−π/4, π/4]`
+    /// (S. L. Moshier's Cephes `sinf`/`cosf` coefficients), within 2 ulp for `|x| ≤ 8192` and
+    /// `(NaN, NaN)` beyond, where the reduction would lose the phase; libm's `sinf`/`cosf`
+    /// compute in `f64`, which a single-precision FPU emulates in software. In `f64`, libm's
+    /// `sin` and `cos`.
+    fn sin_cos(self) -> (Self, Self);
     /// Arcsine, in radians.
     fn asin(self) -> Self;
     /// Arccosine, in radians.
@@ -215,8 +222,47 @@ use fourforce_fpu::sqrtf;
 #[cfg(not(all(target_arch = "arm", target_abi = "eabihf")))]
 use libm::sqrtf;
 
+/// `(sin x, cos x)` in `f32` arithmetic only; see [`Real::sin_cos`].
+fn sin_cos_f32(x: f32) -> (f32, f32) {
+    // π/2 = P1 + P2 + P3: P1 with 8 significant bits and P2 with 11, so that j·P1 and j·P2 are
+    // exact for j < 2¹³ (|x| ≤ 8192); their sum is π/2 to 2e-15.
+    const P1: f32 = 1.570_312_5;
+    const P2: f32 = 4.837_512_969_970_703e-4;
+    const P3: f32 = 7.549_790_126_404_332e-8;
+    // (NaN fails the comparison too)
+    if x.abs()
+        .partial_cmp(&8192.0)
+        .is_none_or(core::cmp::Ordering::is_gt)
+    {
+        return (f32::NAN, f32::NAN);
+    }
+    let j = (x * core::f32::consts::FRAC_2_PI + libm::copysignf(0.5, x)) as i32;
+    let jf = j as f32;
+    let r = ((x - jf * P1) - jf * P2) - jf * P3;
+    let z = r * r;
+    // Cephes sinf and cosf (S. L. Moshier), minimax on [−π/4, π/4]
+    let s = ((-1.951_529_589_1e-4 * z + 8.332_160_873_6e-3) * z - 1.666_665_461_1e-1) * z * r + r;
+    let c = ((2.443_315_711_809_948e-5 * z - 1.388_731_625_493_765e-3) * z
+        + 4.166_664_568_298_827e-2)
+        * z
+        * z
+        - 0.5 * z
+        + 1.0;
+    match j & 3 {
+        0 => (s, c),
+        1 => (c, -s),
+        2 => (-s, -c),
+        _ => (-c, s),
+    }
+}
+
+/// `(sin x, cos x)` through libm; see [`Real::sin_cos`].
+fn sin_cos_f64(x: f64) -> (f64, f64) {
+    (libm::sin(x), libm::cos(x))
+}
+
 macro_rules! impl_real {
-    ($t:ident, $bits:ty, $digits:expr, $c_hi:expr, $c_lo:expr,
+    ($t:ident, $bits:ty, $digits:expr, $c_hi:expr, $c_lo:expr, $sin_cos:path,
      $sqrt:path, $hypot:ident, $fabs:ident, $fma:ident, $sin:ident, $cos:ident, $tan:ident,
      $asin:ident, $acos:ident, $atan:ident, $atan2:ident, $sinh:ident, $cosh:ident,
      $tanh:ident, $atanh:ident, $exp:ident, $expm1:ident, $log:ident, $log1p:ident,
@@ -294,6 +340,10 @@ macro_rules! impl_real {
             #[inline(always)]
             fn tan(self) -> Self {
                 libm::$tan(self)
+            }
+            #[inline(always)]
+            fn sin_cos(self) -> (Self, Self) {
+                $sin_cos(self)
             }
             #[inline(always)]
             fn asin(self) -> Self {
@@ -397,6 +447,7 @@ impl_real!(
     24,
     consts::C_F32_HI,
     consts::C_F32_LO,
+    sin_cos_f32,
     sqrtf,
     hypotf,
     fabsf,
@@ -430,6 +481,7 @@ impl_real!(
     53,
     consts::SPEED_OF_LIGHT,
     0.0,
+    sin_cos_f64,
     libm::sqrt,
     hypot,
     fabs,
@@ -480,6 +532,38 @@ pub fn try_finite<T: Real>(x: T) -> Result<T, crate::Error> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The f32 sine and cosine against libm's f64 ones at the same (exact) argument: within 2 ulp
+    /// of the result, plus the reduction's 2e-15 per multiple of π/2 near the zeros; NaN beyond
+    /// 8192 and for non-finite input.
+    #[test]
+    fn f32_sin_cos_within_two_ulp() {
+        extern crate std;
+        let mut worst: f64 = 0.0;
+        let mut x = 1.0e-30_f32;
+        let mut check = |x: f32| {
+            for x in [x, -x] {
+                let (s, c) = sin_cos_f32(x);
+                let xd = f64::from(x);
+                for (got, exact) in [(s, xd.sin()), (c, xd.cos())] {
+                    let ulp = f64::from(f32::EPSILON) * exact.abs();
+                    let reduction = 2.0e-15 * (xd.abs() / 1.5).ceil();
+                    let ratio = ((f64::from(got) - exact).abs() - reduction).max(0.0) / ulp;
+                    worst = worst.max(ratio);
+                }
+            }
+        };
+        while x < 8192.0 {
+            check(x);
+            x = f32::from_bits(x.to_bits() + 1009);
+        }
+        check(8192.0);
+        std::println!("f32 sin_cos: worst {worst:.2} ulp");
+        assert!(worst <= 2.0, "{worst}");
+        assert!(sin_cos_f32(8192.1).0.is_nan() && sin_cos_f32(f32::NAN).1.is_nan());
+        assert!(sin_cos_f32(f32::INFINITY).0.is_nan());
+        assert_eq!(sin_cos_f32(0.0), (0.0, 1.0));
+    }
 
     #[test]
     fn c_split_is_exact_in_both_precisions() {
