@@ -482,25 +482,45 @@ impl<T: Real> Element<T> {
         reference: &mut Motion<T>,
     ) -> Result<(), Error> {
         let r = &*reference;
+        // the most common elements update the map in place, without a map of their own
         let m = match *self {
-            Self::Drift { length_m } => TransferMap::try_drift(r, length_m)?,
+            Self::Drift { length_m } => {
+                map.then_drift(TransferMap::drift_parts(r, length_m)?);
+                return Ok(());
+            }
             Self::Quadrupole {
                 length_m,
                 gradient_t_per_m,
-            } => TransferMap::try_quadrupole(r, length_m, gradient_t_per_m)?,
+            } => {
+                map.then_blocks(TransferMap::quadrupole_blocks(
+                    r,
+                    length_m,
+                    gradient_t_per_m,
+                )?);
+                return Ok(());
+            }
             Self::ThinQuadrupole {
                 integrated_gradient_t,
-            } => TransferMap::try_thin_quadrupole(r, integrated_gradient_t)?,
+            } => {
+                map.then_blocks(TransferMap::thin_quadrupole_blocks(
+                    r,
+                    integrated_gradient_t,
+                )?);
+                return Ok(());
+            }
             Self::ElectrostaticQuadrupole {
                 length_m,
                 voltage_v,
                 aperture_radius_m,
-            } => TransferMap::try_electrostatic_quadrupole(
-                r,
-                length_m,
-                voltage_v,
-                aperture_radius_m,
-            )?,
+            } => {
+                map.then_blocks(TransferMap::electrostatic_quadrupole_blocks(
+                    r,
+                    length_m,
+                    voltage_v,
+                    aperture_radius_m,
+                )?);
+                return Ok(());
+            }
             Self::SectorDipole {
                 length_m,
                 angle_rad,
@@ -518,9 +538,10 @@ impl<T: Real> Element<T> {
             }
             Self::Monitor { .. } => return Ok(()),
             Self::AcceleratingGap { voltage_v } => {
-                let (m, after) = TransferMap::try_gap(r, voltage_v)?;
+                let (slope, delta, after) = TransferMap::gap_parts(r, voltage_v)?;
+                map.then_gap(slope, delta);
                 *reference = after;
-                m
+                return Ok(());
             }
             Self::MagneticKick { .. } | Self::ElectrostaticKick { .. } => {
                 self.try_check()?;
@@ -528,7 +549,8 @@ impl<T: Real> Element<T> {
             }
             Self::HardEdgeDipole { length_m, .. } => {
                 self.try_check()?;
-                TransferMap::try_drift(r, length_m)?
+                map.then_drift(TransferMap::drift_parts(r, length_m)?);
+                return Ok(());
             }
         };
         map.then_in_place(&m);

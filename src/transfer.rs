@@ -94,6 +94,10 @@ fn fits<T: Real>(x: T) -> Result<T, Error> {
     }
 }
 
+/// The horizontal block, the vertical block and `R56` of an element without coupling,
+/// dispersion or time row.
+pub(crate) type Blocks<T> = ([[T; 2]; 2], [[T; 2]; 2], T);
+
 /// `sin x / x`, 1 at 0.
 #[inline]
 fn sinc<T: Real>(x: T) -> T {
@@ -272,13 +276,16 @@ impl<T: Real> TransferMap<T> {
     /// ```
     #[inline(always)]
     pub fn try_drift(motion: &Motion<T>, length_m: T) -> Result<Self, Error> {
-        let l = nonnegative(length_m)?;
+        let (l, r56) = Self::drift_parts(motion, length_m)?;
         let block = [[T::ONE, l], [T::ZERO, T::ONE]];
-        Ok(Self::uncoupled(
-            block,
-            block,
-            Self::straight_time(motion, l)?,
-        ))
+        Ok(Self::uncoupled(block, block, r56))
+    }
+
+    /// A drift's length (checked) and `R56`.
+    #[inline(always)]
+    pub(crate) fn drift_parts(motion: &Motion<T>, length_m: T) -> Result<(T, T), Error> {
+        let l = nonnegative(length_m)?;
+        Ok((l, Self::straight_time(motion, l)?))
     }
 
     /// A thick magnetic quadrupole of length `L` (m, > 0) and gradient `G = ∂B_y/∂x` (T/m).
@@ -308,16 +315,27 @@ impl<T: Real> TransferMap<T> {
         length_m: T,
         gradient_t_per_m: T,
     ) -> Result<Self, Error> {
+        let (x, y, r56) = Self::quadrupole_blocks(motion, length_m, gradient_t_per_m)?;
+        Ok(Self::uncoupled(x, y, r56))
+    }
+
+    /// The horizontal and vertical blocks and `R56` of a magnetic quadrupole.
+    #[inline(always)]
+    pub(crate) fn quadrupole_blocks(
+        motion: &Motion<T>,
+        length_m: T,
+        gradient_t_per_m: T,
+    ) -> Result<Blocks<T>, Error> {
         let l = positive(length_m)?;
         let g = try_finite(gradient_t_per_m)?;
         let k = fits(charge_sign(motion) * g / magnetic_rigidity(motion)?)?;
-        Self::thick_lens(motion, k, l)
+        Self::lens_blocks(motion, k, l)
     }
 
     /// A thick quadrupole lens of strength `k` (1/m², `> 0` focuses in `x`) and length `L`.
     #[inline(always)]
-    fn thick_lens(motion: &Motion<T>, k: T, length_m: T) -> Result<Self, Error> {
-        Ok(Self::uncoupled(
+    fn lens_blocks(motion: &Motion<T>, k: T, length_m: T) -> Result<Blocks<T>, Error> {
+        Ok((
             focusing_plane(k, length_m)?,
             focusing_plane(-k, length_m)?,
             Self::straight_time(motion, length_m)?,
@@ -346,9 +364,19 @@ impl<T: Real> TransferMap<T> {
         motion: &Motion<T>,
         integrated_gradient_t: T,
     ) -> Result<Self, Error> {
+        let (x, y, r56) = Self::thin_quadrupole_blocks(motion, integrated_gradient_t)?;
+        Ok(Self::uncoupled(x, y, r56))
+    }
+
+    /// The blocks of a thin quadrupole (no time).
+    #[inline(always)]
+    pub(crate) fn thin_quadrupole_blocks(
+        motion: &Motion<T>,
+        integrated_gradient_t: T,
+    ) -> Result<Blocks<T>, Error> {
         let gl = try_finite(integrated_gradient_t)?;
         let inverse_focal = fits(charge_sign(motion) * gl / magnetic_rigidity(motion)?)?;
-        Ok(Self::uncoupled(
+        Ok((
             [[T::ONE, T::ZERO], [-inverse_focal, T::ONE]],
             [[T::ONE, T::ZERO], [inverse_focal, T::ONE]],
             T::ZERO,
@@ -382,11 +410,24 @@ impl<T: Real> TransferMap<T> {
         voltage_v: T,
         aperture_radius_m: T,
     ) -> Result<Self, Error> {
+        let (x, y, r56) =
+            Self::electrostatic_quadrupole_blocks(motion, length_m, voltage_v, aperture_radius_m)?;
+        Ok(Self::uncoupled(x, y, r56))
+    }
+
+    /// The blocks and `R56` of an electrostatic quadrupole.
+    #[inline(always)]
+    pub(crate) fn electrostatic_quadrupole_blocks(
+        motion: &Motion<T>,
+        length_m: T,
+        voltage_v: T,
+        aperture_radius_m: T,
+    ) -> Result<Blocks<T>, Error> {
         let l = positive(length_m)?;
         let v = try_finite(voltage_v)?;
         let a = positive(aperture_radius_m)?;
         let k = fits(charge_sign(motion) * ((v + v) / (a * a)) / electric_rigidity(motion)?)?;
-        Self::thick_lens(motion, k, l)
+        Self::lens_blocks(motion, k, l)
     }
 
     /// A sector dipole of arc length `L` (m, > 0) bending by `θ` (rad, signed; `ρ = L/θ`), with
@@ -544,11 +585,23 @@ impl<T: Real> TransferMap<T> {
     /// ```
     #[inline(always)]
     pub fn try_gap(motion: &Motion<T>, voltage_v: T) -> Result<(Self, Motion<T>), Error> {
+        let (slope, delta, after) = Self::gap_parts(motion, voltage_v)?;
+        let block = [[T::ONE, T::ZERO], [T::ZERO, slope]];
+        let m = Self {
+            delta_scale: delta,
+            ..Self::uncoupled(block, block, T::ZERO)
+        };
+        Ok((m, after))
+    }
+
+    /// A gap's slope factor `p₀/p₁`, its `δ` factor `v₀p₀/(v₁p₁)` and the reference after it.
+    #[inline(always)]
+    pub(crate) fn gap_parts(motion: &Motion<T>, voltage_v: T) -> Result<(T, T, Motion<T>), Error> {
         let v = try_finite(voltage_v)?;
         let species = motion.species();
         let gain = species.charge() * v;
         if gain == T::ZERO {
-            return Ok((Self::IDENTITY, *motion));
+            return Ok((T::ONE, T::ONE, *motion));
         }
         let kinetic = motion.kinetic_energy() + gain;
         if kinetic < T::ZERO {
@@ -558,19 +611,10 @@ impl<T: Real> TransferMap<T> {
         if motion.momentum() == T::ZERO || after.momentum() == T::ZERO {
             return Err(Error::Overflow);
         }
-        let slope = motion.momentum() / after.momentum();
+        let slope = fits(motion.momentum() / after.momentum())?;
         // v p = Eρ |Q|: the ratio of the electric rigidities, each free of cancellation
-        let delta = electric_rigidity(motion)? / electric_rigidity(&after)?;
-        let m = Self::uncoupled(
-            [[T::ONE, T::ZERO], [T::ZERO, slope]],
-            [[T::ONE, T::ZERO], [T::ZERO, slope]],
-            T::ZERO,
-        );
-        let m = Self {
-            delta_scale: delta,
-            ..m
-        };
-        Ok((m.checked()?, after))
+        let delta = fits(electric_rigidity(motion)? / electric_rigidity(&after)?)?;
+        Ok((slope, delta, after))
     }
 
     /// `Ok(self)` if every entry is finite, else [`Error::Overflow`] (a product of maps can
@@ -715,6 +759,82 @@ impl<T: Real> TransferMap<T> {
         };
         self.delta_scale = next.delta_scale * s;
         self.coupled = coupled;
+    }
+
+    /// `self = E · self` for an element `E` without coupling, dispersion or time row: the
+    /// blocks `x`, `y` and `R56` (the same sums as [`then`](Self::then), fewer of them).
+    #[inline(always)]
+    pub(crate) fn then_blocks(&mut self, (x, y, r56): Blocks<T>) {
+        let [[x00, x01], [x10, x11]] = x;
+        let [[y00, y01], [y10, y11]] = y;
+        self.time_per_delta += r56 * self.delta_scale;
+        let [r0, r1, r2, r3] = self.transverse;
+        let [d0, d1, d2, d3] = self.dispersion;
+        let pair = |p: T, q: T, a: [T; 4], b: [T; 4]| {
+            let [a0, a1, a2, a3] = a;
+            let [b0, b1, b2, b3] = b;
+            [
+                p * a0 + q * b0,
+                p * a1 + q * b1,
+                p * a2 + q * b2,
+                p * a3 + q * b3,
+            ]
+        };
+        if self.coupled {
+            self.transverse = [
+                pair(x00, x01, r0, r1),
+                pair(x10, x11, r0, r1),
+                pair(y00, y01, r2, r3),
+                pair(y10, y11, r2, r3),
+            ];
+        } else {
+            let ([a0, a1, _, _], [b0, b1, _, _]) = (r0, r1);
+            let ([_, _, c2, c3], [_, _, e2, e3]) = (r2, r3);
+            let z = T::ZERO;
+            self.transverse = [
+                [x00 * a0 + x01 * b0, x00 * a1 + x01 * b1, z, z],
+                [x10 * a0 + x11 * b0, x10 * a1 + x11 * b1, z, z],
+                [z, z, y00 * c2 + y01 * e2, y00 * c3 + y01 * e3],
+                [z, z, y10 * c2 + y11 * e2, y10 * c3 + y11 * e3],
+            ];
+        }
+        self.dispersion = [
+            x00 * d0 + x01 * d1,
+            x10 * d0 + x11 * d1,
+            y00 * d2 + y01 * d3,
+            y10 * d2 + y11 * d3,
+        ];
+    }
+
+    /// `self = G · self` for a gap: the rows of `x'` and `y'` scale by `slope`, `δ` by `delta`.
+    #[inline(always)]
+    pub(crate) fn then_gap(&mut self, slope: T, delta: T) {
+        let [_, r1, _, r3] = &mut self.transverse;
+        for a in r1.iter_mut().chain(r3.iter_mut()) {
+            *a = slope * *a;
+        }
+        let [_, d1, _, d3] = &mut self.dispersion;
+        *d1 = slope * *d1;
+        *d3 = slope * *d3;
+        self.delta_scale = delta * self.delta_scale;
+    }
+
+    /// `self = D · self` for a drift of length `l` and `R56 = r56`: `x += l x'`, `y += l y'` on
+    /// every column (the same sums as [`then`](Self::then): the other terms are products by 1 and
+    /// 0).
+    #[inline(always)]
+    pub(crate) fn then_drift(&mut self, (l, r56): (T, T)) {
+        self.time_per_delta += r56 * self.delta_scale;
+        let [r0, r1, r2, r3] = &mut self.transverse;
+        for (a, &b) in r0.iter_mut().zip(r1.iter()) {
+            *a += l * b;
+        }
+        for (a, &b) in r2.iter_mut().zip(r3.iter()) {
+            *a += l * b;
+        }
+        let [d0, d1, d2, d3] = &mut self.dispersion;
+        *d0 += l * *d1;
+        *d2 += l * *d3;
     }
 
     /// The state `(x, x', y, y', Δt, δ)` after the map.
