@@ -3,7 +3,7 @@
 /// Defines the aliases of every public generic type for one scalar type.
 macro_rules! aliases {
     ($t:ident) => {
-        use crate::{beamline, check, push, steer, transfer, witness};
+        use crate::{beamline, check, orbit, push, transfer, witness};
 
         #[doc = concat!("[`Species`](crate::Species) in `", stringify!($t), "`.")]
         pub type Species = crate::Species<$t>;
@@ -55,10 +55,20 @@ macro_rules! aliases {
         pub type Verdict = check::Verdict<$t>;
         #[doc = concat!("[`MovingWindow`](crate::check::MovingWindow) of capacity `N` in `", stringify!($t), "`.")]
         pub type MovingWindow<const N: usize> = check::MovingWindow<$t, N>;
-        #[doc = concat!("[`SteeringSetup`](crate::steer::SteeringSetup) in `", stringify!($t), "`.")]
-        pub type SteeringSetup = steer::SteeringSetup<$t>;
-        #[doc = concat!("[`SteeringCommand`](crate::steer::SteeringCommand) in `", stringify!($t), "`.")]
-        pub type SteeringCommand = steer::SteeringCommand<$t>;
+        #[doc = concat!("[`Orbit`](crate::orbit::Orbit) of `M` monitors and `C` correctors in `", stringify!($t), "`.")]
+        pub type Orbit<const M: usize, const C: usize> = orbit::Orbit<$t, M, C>;
+        #[doc = concat!("[`Response`](crate::orbit::Response) of `M` monitors to `C` correctors in `", stringify!($t), "`.")]
+        pub type Response<const M: usize, const C: usize> = orbit::Response<$t, M, C>;
+        #[doc = concat!("[`Monitor`](crate::orbit::Monitor) in `", stringify!($t), "`.")]
+        pub type Monitor = orbit::Monitor<$t>;
+        #[doc = concat!("[`Corrector`](crate::orbit::Corrector) in `", stringify!($t), "`.")]
+        pub type Corrector = orbit::Corrector<$t>;
+        #[doc = concat!("[`Tuning`](crate::orbit::Tuning) in `", stringify!($t), "`.")]
+        pub type Tuning = orbit::Tuning<$t>;
+        #[doc = concat!("[`Place`](crate::orbit::Place) in `", stringify!($t), "`.")]
+        pub type Place = orbit::Place<$t>;
+        #[doc = concat!("[`Calibration`](crate::orbit::Calibration) of `P` points in `", stringify!($t), "`.")]
+        pub type Calibration<const P: usize> = orbit::Calibration<$t, P>;
         #[doc = concat!("[`Reading`](crate::witness::Reading) in `", stringify!($t), "`.")]
         pub type Reading = witness::Reading<$t>;
         #[doc = concat!("[`Estimate`](crate::witness::Estimate) in `", stringify!($t), "`.")]

@@ -5,7 +5,8 @@
 //! time, the angle a corrector gives) without losing precision in `f32` at low energy or near the
 //! speed of light; it carries four-vectors and the electromagnetic field tensor, the four-force
 //! `K^μ = q F^μ_ν u^ν`, Lorentz boosts of vectors and fields, three published relativistic
-//! pushers, a fixed-capacity beam-line model, a steering step and on-device plausibility checks.
+//! pushers, a fixed-capacity beam-line model, the steering of a whole line and on-device
+//! plausibility checks.
 //!
 //! # Conventions
 //! - Metric signature (+,−,−,−), `x⁰ = ct`; four-velocity in units of c, `u = γ(1, β)`.
@@ -100,7 +101,6 @@ pub mod beamline;
 pub mod check;
 pub mod orbit;
 pub mod push;
-pub mod steer;
 mod svd;
 pub mod witness;
 

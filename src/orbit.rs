@@ -931,6 +931,105 @@ impl Outcome {
     }
 }
 
+/// One monitor reading one plane, one corrector: the correction in closed form, without a loop
+/// object or a decomposition (what [`Orbit`] computes for `M = C = 1`, to rounding; for a
+/// controller that steers one beam position with one corrector and knows the rigidity of each
+/// cycle). The wanted change is the gained least-squares step with Tikhonov `α`,
+///
+/// ```text
+/// Δs = −g x / (R (1 + α²)),   R = reading per setting (m per T m or per V) = R₁₂ κ
+/// ```
+///
+/// then held within the corrector's rate and range as in [`Orbit::try_step`]. Returns the new
+/// setting and the outcome (monitor 0 in use, the limits of corrector 0). Edges: `R = 0` (the
+/// corrector does not reach the monitor) holds (`State::Hold { rank: 0, correctors: 1 }`); a
+/// setting outside the range is brought to it (by the step itself when that lands inside).
+///
+/// # Errors
+/// [`Error::NonFinite`] for a non-finite reading, response or setting; [`Error::Overflow`] when
+/// the step does not fit the precision.
+///
+/// # Examples
+/// ```
+/// use fourforce::orbit::{self, Corrector, Tuning};
+/// use fourforce::{Motion, Species, optics};
+/// // An invented 2 MeV deuteron line: monitor 3 m after the corrector, ±5 mT m, 0.2 mT m/step.
+/// let corrector = Corrector::try_new(-5.0e-3_f32, 5.0e-3, 0.2e-3)?;
+/// let tuning = Tuning::try_new(0.5, 0.0, 0.0)?;
+/// let beam = Motion::try_from_kinetic_energy(Species::DEUTERON, 2.0e6)?;
+/// let response = 3.0 * optics::try_kick_angle(&beam, 1.0)?; // m per T m
+/// let (setting, out) = orbit::try_single_step(&corrector, &tuning, response, 1.0e-3, 0.0)?;
+/// // full correction −Bρ · 1 mm / 3 m = −96.3 µT m (Bρ = 0.289 T m); half of it at g = 0.5
+/// assert!((setting + 0.5 * 0.289 * 1.0e-3 / 3.0).abs() < 1e-7);
+/// assert!(!out.limited());
+/// # Ok::<(), fourforce::Error>(())
+/// ```
+pub fn try_single_step<T: Real>(
+    corrector: &Corrector<T>,
+    tuning: &Tuning<T>,
+    reading_per_setting: T,
+    reading_m: T,
+    setting: T,
+) -> Result<(T, Outcome), Error> {
+    let (r, x, given) = (
+        try_finite(reading_per_setting)?,
+        try_finite(reading_m)?,
+        try_finite(setting)?,
+    );
+    let s = clamp(given, corrector.min, corrector.max);
+    let mut outcome = Outcome {
+        state: State::Correcting,
+        saturated: 0,
+        rate_limited: 0,
+        in_use: 1,
+        decomposed: false,
+    };
+    if r == T::ZERO {
+        outcome.state = State::Hold {
+            rank: 0,
+            correctors: 1,
+        };
+        return Ok((s, outcome));
+    }
+    let alpha = tuning.regularisation;
+    let wanted = try_finite(-tuning.gain * x / (r * (T::ONE + alpha * alpha)))
+        .map_err(|_| Error::Overflow)?;
+    // As the loop: a step within the rate that lands within the range is taken as it is.
+    let candidate = given + wanted;
+    if wanted.abs() <= corrector.max_step
+        && candidate >= corrector.min
+        && candidate <= corrector.max
+    {
+        return Ok((candidate, outcome));
+    }
+    let (lo_range, hi_range) = (corrector.min - s, corrector.max - s);
+    let lo = if lo_range > -corrector.max_step {
+        lo_range
+    } else {
+        -corrector.max_step
+    };
+    let hi = if hi_range < corrector.max_step {
+        hi_range
+    } else {
+        corrector.max_step
+    };
+    let step = if wanted > hi {
+        hi
+    } else if wanted < lo {
+        lo
+    } else {
+        wanted
+    };
+    if step != wanted {
+        if step == hi_range || step == lo_range {
+            outcome.saturated = 1;
+        } else {
+            outcome.rate_limited = 1;
+        }
+    }
+    Ok((clamp(s + step, corrector.min, corrector.max), outcome))
+}
+
 /// `x` brought into `[lo, hi]` by comparisons (finite inputs; libm's `fminf`/`fmaxf` are calls
 /// on a chip, and this is on the path of every iteration).
 #[inline]
@@ -1473,11 +1572,14 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
 
     /// One iteration: reads the monitors `readings[i] = [x_i, y_i]` (m, offsets from the wanted
     /// orbit), drops failed ones, and moves the set points `settings` (T m or V) by the limited
-    /// correction step. A set point found outside its range is first brought to it.
+    /// correction step. Every new set point lies within its range: one found outside is brought
+    /// to it (by its step alone when that step is within the rate and lands inside).
     ///
     /// # Errors
     /// [`Error::NonFinite`] for a non-finite setting; [`Error::NotConverged`] or
-    /// [`Error::Overflow`] from a decomposition that failed (not seen in practice). On an error
+    /// [`Error::Overflow`] from a decomposition that failed (not seen in practice);
+    /// [`Error::Overflow`] for a step that does not fit the precision (a response or `κ` at the
+    /// edge of the range); [`Error::Empty`] before a configuration and a response. On an error
     /// the settings are unchanged.
     ///
     /// # Examples
@@ -1630,6 +1732,8 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
                 continue;
             }
             let s = clamp(try_finite(*s)?, c.min, c.max);
+            // A step that does not fit the precision (a response or κ at the edge of the range)
+            try_finite(wanted).map_err(|_| Error::Overflow)?;
             let (lo_range, hi_range) = (c.min - s, c.max - s);
             let lo = if lo_range > -c.max_step {
                 lo_range
@@ -2173,7 +2277,9 @@ impl<T: Real, const P: usize> Calibration<T, P> {
     }
 }
 
-/// `y(x)` on the polyline through `(xs[i], ys[i])`, `xs` strictly increasing.
+/// `y(x)` on the polyline through `(xs[i], ys[i])`, `xs` strictly increasing. The result stays
+/// within the segment's ends (no rounding past them), and finite: where `y₁ − y₀` or `x₁ − x₀`
+/// overflows, the segment is evaluated as `y₀ (1 − t) + y₁ t`, `t` from halved coordinates.
 fn interpolate<T: Real>(xs: &[T], ys: &[T], x: T) -> Result<T, Error> {
     for (xw, yw) in xs.windows(2).zip(ys.windows(2)) {
         if let ([x0, x1], [y0, y1]) = (xw, yw) {
@@ -2181,7 +2287,15 @@ fn interpolate<T: Real>(xs: &[T], ys: &[T], x: T) -> Result<T, Error> {
                 if x == *x1 {
                     return Ok(*y1);
                 }
-                return Ok(*y0 + (x - *x0) * ((*y1 - *y0) / (*x1 - *x0)));
+                let y = *y0 + (x - *x0) * ((*y1 - *y0) / (*x1 - *x0));
+                let y = if y.is_finite() {
+                    y
+                } else {
+                    let t = (x * T::HALF - *x0 * T::HALF) / (*x1 * T::HALF - *x0 * T::HALF);
+                    let t = clamp(t, T::ZERO, T::ONE);
+                    *y0 * (T::ONE - t) + *y1 * t
+                };
+                return Ok(clamp(y, *y0, *y1));
             }
         }
     }

@@ -1,13 +1,13 @@
 //! Benchmarks of the motion modules: ns per push step for each scheme in f32 and f64 beside a
 //! hand-written scalar step of the same scheme (plain and compensated, the same formulas and sums
-//! on plain arrays), ns per transport through a 16-element beam line, ns per steering step.
+//! on plain arrays), ns per transport through a 16-element beam line, ns per orbit-correction iteration.
 //!
 //! Run bounded: `nice cargo bench -p fourforce-checks --bench motion -- --warm-up-time 1 --measurement-time 2`.
 
 use criterion::{BenchmarkId, Criterion, black_box, criterion_group, criterion_main};
 use fourforce::beamline::{BeamLine, BeamState, Element, KickDirection};
+use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
 use fourforce::push::{Boris, HigueraCary, Particle, Pusher, Vay};
-use fourforce::steer::SteeringSetup;
 use fourforce::{FieldTensor, Motion, Real, Species, ThreeVector};
 
 fn t<T: Real>(x: f64) -> T {
@@ -367,19 +367,37 @@ fn line_group<T: Real>(c: &mut Criterion, name: &str) {
     );
 }
 
-fn steer_group<T: Real>(c: &mut Criterion, name: &str) {
-    let setup = SteeringSetup::try_new(t::<T>(2.4), t(0.5), t(4e-3), t(5e-5)).unwrap();
-    let beam = Motion::try_from_kinetic_energy(Species::<T>::PROTON, t(12e6)).unwrap();
-    c.bench_with_input(BenchmarkId::new("steering step", name), &beam, |b, m| {
-        b.iter(|| {
-            black_box(setup.try_next_setting(
-                black_box(m),
-                black_box(t(1.2e-4)),
-                T::ZERO,
-                black_box(t(-4e-4)),
-            ))
-        });
-    });
+/// One correction iteration of a loop with 8 monitors and 6 + 6 correctors, uncoupled planes
+/// (no decomposition, no limit: the per-iteration cost).
+fn orbit_group<T: Real>(c: &mut Criterion, name: &str) {
+    let mut per_kick = [[[T::ZERO; 8]; 2]; 12];
+    for (j, column) in per_kick.iter_mut().enumerate() {
+        let (plane, first) = (j / 6, j % 6);
+        for (i, r) in column[plane].iter_mut().enumerate().skip(first) {
+            *r = t(1.0 + 0.3 * (i - first) as f64);
+        }
+    }
+    let response = Response::try_new(per_kick, [t(0.8); 12]).unwrap();
+    let monitor = Monitor::try_new(t(0.01), T::ONE).unwrap();
+    let corrector = Corrector::try_new(t(-4e-3), t(4e-3), t(1e-3)).unwrap();
+    let tuning = Tuning::try_new(t(0.5), t(0.05), t(1e-3)).unwrap();
+    let mut orbit =
+        Orbit::<T, 8, 12>::try_new(response, [monitor; 8], [corrector; 12], tuning).unwrap();
+    // readings that change sign every iteration, so no monitor looks stuck
+    let readings = [[[t(1.2e-5), t(-0.7e-5)]; 8], [[t(-1.2e-5), t(0.7e-5)]; 8]];
+    orbit.try_step(&readings[0], &mut [T::ZERO; 12]).unwrap();
+    let mut k = 0;
+    c.bench_with_input(
+        BenchmarkId::new("orbit iteration 8 x 12", name),
+        &readings,
+        |b, r| {
+            b.iter(|| {
+                k ^= 1;
+                let mut settings = [T::ZERO; 12];
+                black_box(orbit.try_step(black_box(&r[k]), &mut settings))
+            });
+        },
+    );
 }
 
 fn benches(c: &mut Criterion) {
@@ -389,8 +407,8 @@ fn benches(c: &mut Criterion) {
     push_group::<f64>(c, "f64");
     line_group::<f32>(c, "f32");
     line_group::<f64>(c, "f64");
-    steer_group::<f32>(c, "f32");
-    steer_group::<f64>(c, "f64");
+    orbit_group::<f32>(c, "f32");
+    orbit_group::<f64>(c, "f64");
 }
 
 criterion_group!(motion, benches);

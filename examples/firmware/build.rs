@@ -194,7 +194,7 @@ fn write_orbit_cases(out: &std::path::Path) {
 /// Sorted and without repeats, NaN and infinite patterns included.
 fn fuzz_values() -> String {
     let mut bits = Vec::new();
-    for target in ["motion", "check", "steer", "field", "push"] {
+    for target in ["motion", "check", "orbit", "field", "push"] {
         let dir = PathBuf::from("../../fuzz/corpus").join(target);
         println!("cargo:rerun-if-changed={}", dir.display());
         let Ok(entries) = fs::read_dir(&dir) else {

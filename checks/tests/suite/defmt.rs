@@ -56,8 +56,16 @@ public_types! {
     EnergyWindow => [fourforce::check::EnergyWindow<f32>, fourforce::check::EnergyWindow<f64>],
     Trend => [fourforce::check::Trend],
     MovingWindow => [fourforce::check::MovingWindow<f32, 8>, fourforce::check::MovingWindow<f64, 32>],
-    SteeringSetup => [fourforce::steer::SteeringSetup<f32>, fourforce::steer::SteeringSetup<f64>],
-    SteeringCommand => [fourforce::steer::SteeringCommand<f32>, fourforce::steer::SteeringCommand<f64>],
+    // orbit
+    Response => [fourforce::orbit::Response<f32, 8, 12>, fourforce::orbit::Response<f64, 2, 2>],
+    Monitor => [fourforce::orbit::Monitor<f32>, fourforce::orbit::Monitor<f64>],
+    Corrector => [fourforce::orbit::Corrector<f32>, fourforce::orbit::Corrector<f64>],
+    Tuning => [fourforce::orbit::Tuning<f32>, fourforce::orbit::Tuning<f64>],
+    Place => [fourforce::orbit::Place<f32>, fourforce::orbit::Place<f64>],
+    Kick => [fourforce::orbit::Kick],
+    State => [fourforce::orbit::State],
+    Outcome => [fourforce::orbit::Outcome],
+    Calibration => [fourforce::orbit::Calibration<f32, 7>, fourforce::orbit::Calibration<f64, 2>],
     // witness
     Reading => [fourforce::witness::Reading<f32>, fourforce::witness::Reading<f64>],
     Estimate => [fourforce::witness::Estimate<f32>, fourforce::witness::Estimate<f64>],

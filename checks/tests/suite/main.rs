@@ -25,7 +25,6 @@ mod orbit;
 mod push;
 mod spacetime;
 mod species;
-mod steer;
 mod transfer;
 mod vector;
 mod witness;

@@ -688,3 +688,64 @@ fn line_response_matches_tracking() {
         Err(Error::OutOfBounds)
     );
 }
+
+/// The one-corrector closed form (`orbit::try_single_step`) is the `M = C = 1` case of the loop:
+/// the same set point to a few ε for any response, reading, gain, α and limits (the loop's
+/// first step, before any monitor history).
+#[test]
+fn single_step_is_the_one_by_one_loop() {
+    use fourforce::orbit::try_single_step;
+    let mut rng = Rng(2026);
+    for case in 0..2000 {
+        let r = 5.0 * rng.next();
+        let kappa = 0.2 + rng.next().abs();
+        let x = 1.0e-3 * rng.next();
+        let s0 = 2.0e-3 * rng.next();
+        let gain = 1.0 + 0.9 * rng.next();
+        let alpha = if case % 2 == 0 {
+            0.0
+        } else {
+            0.3 * rng.next().abs()
+        };
+        let max = 1.0e-3 + 2.0e-3 * rng.next().abs();
+        let rate = if case % 3 == 0 { 1.0 } else { 1.0e-4 };
+        let corrector = Corrector::try_new(-max, max, rate).unwrap();
+        let tuning = Tuning::try_new(gain, alpha, 0.0).unwrap();
+        let response = Response::<f64, 1, 1>::try_new([[[r], [0.0]]], [kappa]).unwrap();
+        let monitor = Monitor::try_new(1.0, 1.0).unwrap();
+        let mut orbit =
+            Orbit::<f64, 1, 1>::try_new(response, [monitor], [corrector], tuning).unwrap();
+        let mut s = [s0];
+        let looped = orbit.try_step(&[[x, 0.0]], &mut s).unwrap();
+        let (single, out) = try_single_step(&corrector, &tuning, r * kappa, x, s0).unwrap();
+        assert!(
+            (single - s[0]).abs() <= 8.0 * f64::EPSILON * max,
+            "case {case}: {single} vs {}",
+            s[0]
+        );
+        assert_eq!(out.saturated(0), looped.saturated(0), "case {case}");
+        assert_eq!(out.rate_limited(0), looped.rate_limited(0), "case {case}");
+    }
+    // a corrector that does not reach the monitor holds
+    let c = Corrector::try_new(-1.0, 1.0, 1.0).unwrap();
+    let t = Tuning::try_new(1.0, 0.0, 0.0).unwrap();
+    let (s, out) = try_single_step(&c, &t, 0.0, 1.0e-3, 0.25).unwrap();
+    assert_eq!(
+        (s, out.state()),
+        (
+            0.25,
+            State::Hold {
+                rank: 0,
+                correctors: 1
+            }
+        )
+    );
+    assert_eq!(
+        try_single_step(&c, &t, 1.0, f64::NAN, 0.0),
+        Err(Error::NonFinite)
+    );
+    assert_eq!(
+        try_single_step(&c, &t, 1.0e-300, 1.0e10, 0.0),
+        Err(Error::Overflow)
+    );
+}

@@ -15,16 +15,17 @@
 //! 2. **plausibility**: the energy must lie in the machine's window ([`EnergyWindow`]); a reading
 //!    outside it is refused and the corrector is left alone; plausible energies feed a moving
 //!    window ([`MovingWindow`]) whose mean the loop reports;
-//! 3. **set point**: the steering step ([`SteeringSetup::try_next_setting`]) from the offset and
-//!    the read-back setting;
+//! 3. **set point**: the one-monitor, one-corrector case of the orbit correction
+//!    ([`orbit::try_single_step`]: the response of the monitor to the corrector across the drift,
+//!    at the rigidity of this cycle) from the offset and the read-back setting;
 //! 4. **four-force** on the beam inside the corrector at the new setting
 //!    ([`FieldTensor::try_four_force`]);
 //! 5. **push**: one Boris step through the corrector ([`Boris`]), whose kick the loop reports.
 
 use fourforce::check::{EnergyWindow, MovingWindow, Verdict};
+use fourforce::orbit::{self, Corrector, Tuning};
 use fourforce::push::{Boris, Particle, Pusher};
-use fourforce::steer::SteeringSetup;
-use fourforce::{Error, FieldTensor, Motion, Real, Species, ThreeVector};
+use fourforce::{Error, FieldTensor, Motion, Real, Species, ThreeVector, optics};
 
 /// The invented injector line.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -36,7 +37,38 @@ pub struct Machine<T: Real> {
     /// The plausible energies (and the species).
     pub window: EnergyWindow<T>,
     /// Drift to the monitor, gain and corrector limits.
-    pub steering: SteeringSetup<T>,
+    pub steering: Steering<T>,
+}
+
+/// The steering of the injector: one corrector, one monitor a drift downstream.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Steering<T: Real> {
+    /// Drift from the corrector to the monitor, m: the monitor moves `drift` m per rad of kick.
+    pub drift_m: T,
+    /// The corrector's range and largest change per cycle, T m.
+    pub corrector: Corrector<T>,
+    /// Gain (no regularisation: one corrector, one reading).
+    pub tuning: Tuning<T>,
+}
+
+impl<T: Real> Steering<T> {
+    /// Monitor `drift_m` downstream, gain `gain`, corrector within `±max_tm`, at most
+    /// `max_change_tm` per cycle.
+    ///
+    /// # Errors
+    /// As [`Corrector::try_new`] and [`Tuning::try_new`].
+    pub fn try_new(drift_m: T, gain: T, max_tm: T, max_change_tm: T) -> Result<Self, Error> {
+        Ok(Self {
+            drift_m,
+            corrector: Corrector::try_new(-max_tm, max_tm, max_change_tm)?,
+            tuning: Tuning::try_new(gain, T::ZERO, T::ZERO)?,
+        })
+    }
+
+    /// Drift from the corrector to the monitor, m.
+    pub fn drift(&self) -> T {
+        self.drift_m
+    }
 }
 
 /// Nominal kinetic energy of the injector's protons, eV.
@@ -50,14 +82,14 @@ impl<T: Real> Machine<T> {
     /// `f32`.
     ///
     /// # Errors
-    /// As [`EnergyWindow::try_around`] and [`SteeringSetup::try_new`].
+    /// As [`EnergyWindow::try_around`] and [`Steering::try_new`].
     pub fn try_injector(species: Species<T>, nominal_ev: T) -> Result<Self, Error> {
         Ok(Self {
             flight_base_m: T::from_f64(1.25),
             corrector_length_m: T::from_f64(0.125),
             window: EnergyWindow::try_around(species, nominal_ev, T::from_f64(0.2))?,
             // Monitor 2.5 m downstream, gain 0.5, ±20 mT m, at most 2 mT m per cycle.
-            steering: SteeringSetup::try_new(
+            steering: Steering::try_new(
                 T::from_f64(2.5),
                 T::HALF,
                 T::from_f64(0.02),
@@ -84,11 +116,11 @@ impl<T: Real> Machine<T> {
                 c(w.nominal()),
                 c(w.high()),
             )?,
-            steering: SteeringSetup::try_new(
-                c(s.drift()),
-                c(s.gain()),
-                c(s.max_integrated_field()),
-                c(s.max_change()),
+            steering: Steering::try_new(
+                c(s.drift_m),
+                c(s.tuning.gain()),
+                c(s.corrector.max()),
+                c(s.corrector.max_step()),
             )?,
         })
     }
@@ -106,7 +138,7 @@ pub struct Reading<T: Real> {
 }
 
 /// A read-back setting for test readings (host only): twice the full correction of `offset_m`,
-/// on the side the steering step moves to, so the new setting never cancels against it and the
+/// on the side the correction moves to, so the new setting never cancels against it and the
 /// kick stays a few milliradians at any energy.
 pub fn test_readback(rigidity_tm: f64, charge_sign: f64, offset_m: f64, drift_m: f64) -> f64 {
     -2.0 * charge_sign * rigidity_tm * offset_m / drift_m
@@ -117,6 +149,30 @@ pub fn test_readback(rigidity_tm: f64, charge_sign: f64, offset_m: f64, drift_m:
 pub struct LoopState<T: Real> {
     /// The last [`WINDOW`] plausible kinetic energies, eV.
     pub energies: MovingWindow<T, WINDOW>,
+}
+
+/// The corrector's next setting (T m) from the monitor's offset `offset_m` and the read-back
+/// setting `readback_tm`, at the rigidity of `motion`: the one-monitor, one-corrector case of
+/// the orbit correction ([`orbit::try_single_step`]), the monitor moving `drift · κ` m per T m
+/// (`κ = ±1/Bρ`).
+///
+/// # Errors
+/// As [`optics::try_kick_angle`] and [`orbit::try_single_step`].
+pub fn set_point<T: Real>(
+    steering: &Steering<T>,
+    motion: &Motion<T>,
+    offset_m: T,
+    readback_tm: T,
+) -> Result<T, Error> {
+    let response = steering.drift_m * optics::try_kick_angle(motion, T::ONE)?;
+    let (setting, _) = orbit::try_single_step(
+        &steering.corrector,
+        &steering.tuning,
+        response,
+        offset_m,
+        readback_tm,
+    )?;
+    Ok(setting)
 }
 
 /// What one cycle computes.
@@ -217,14 +273,13 @@ pub fn cycle<T: Real>(
     }
     let t = motion.kinetic_energy();
     state.energies.try_push(t)?;
-    // 3. Set point: the steering step toward the axis (target offset 0).
-    let command = machine.steering.try_next_setting(
+    // 3. Set point: the orbit correction toward the axis (target offset 0).
+    let corrector_tm = set_point(
+        &machine.steering,
         &motion,
         reading.offset_m,
-        T::ZERO,
         reading.readback_tm,
     )?;
-    let corrector_tm = command.setting();
     // 4. Four-force on the beam inside the corrector; the particle at the corrector's entrance
     // carries the four-velocity (γ, γβ ẑ) (one normalisation of the axis for both steps).
     let field = corrector_field(machine, corrector_tm)?;

@@ -1,7 +1,7 @@
 //! A timing and steering loop with fourforce on an emulated Cortex-M4F (QEMU `mps2-an386`).
 //!
 //! Each cycle turns a measured time of flight into the beam's kinematics, checks that the energy
-//! is plausible, computes the corrector set point through the steering step, the four-force in
+//! is plausible, computes the corrector set point through the orbit correction, the four-force in
 //! the corrector and one push step through it (`control.rs`). The program measures the cost of
 //! the pieces between markers counted by the QEMU plugin `insncount.c`, then checks every cycle
 //! against the `f64` results that `build.rs` computed on the host from the same inputs, within
@@ -57,7 +57,7 @@ fn main() -> ! {
     board::exit(ok)
 }
 
-/// Counts each piece of the cycle on its own: kinematics, check, steering step, four-force,
+/// Counts each piece of the cycle on its own: kinematics, check, set point, four-force,
 /// pusher construction, push step.
 #[inline(never)]
 fn measure_parts(
@@ -81,13 +81,13 @@ fn measure_parts(
             black_box(black_box(&machine.window).check_motion(black_box(&nominal)));
         }
     });
-    // The steering step.
-    bench.measure(out, "steer", CALLS, || {
+    // The set point: the one-monitor, one-corrector case of the orbit correction.
+    bench.measure(out, "set_point", CALLS, || {
         for case in &CASES {
-            let r = black_box(&machine.steering).try_next_setting(
+            let r = control::set_point(
+                black_box(&machine.steering),
                 black_box(&nominal),
                 black_box(case.reading.offset_m),
-                0.0,
                 black_box(case.reading.readback_tm),
             );
             black_box(r.ok());

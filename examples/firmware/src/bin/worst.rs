@@ -4,7 +4,7 @@
 //! Inputs: the extremes of `f32` (zeros, the smallest subnormal and normal, 1, the largest value,
 //! the infinities, NaN, negatives), the flight time of light over the machine's base and values
 //! around it, the 34 readings of the firmware's run, and every `f32` the fuzz targets of these
-//! functions would read from the committed fuzz corpus (`fuzz/corpus/{motion,check,steer,field,
+//! functions would read from the committed fuzz corpus (`fuzz/corpus/{motion,check,orbit,field,
 //! push}`, turned into bit patterns by `build.rs`). Error paths are included: an input that is
 //! refused is counted like any other.
 //!
@@ -151,15 +151,16 @@ fn run(out: &mut Out, b: &mut Bench, machine: &Machine<f32>) -> bool {
         });
     }
 
-    // 4. The steering step: each value as the offset and as the read-back, and every state of
-    // motion with the run's first reading.
+    // 4. The set point (the one-corrector case of the orbit correction, with the kick angle per
+    // T m of the state of motion): each value as the offset and as the read-back, and every state
+    // of motion with the run's first reading.
     let r0 = CASES[0].reading;
     let steer = |b: &mut Bench, out: &mut Out, m: &Motion<f32>, offset: f32, readback: f32| {
-        b.worst(out, "SteeringSetup::try_next_setting", || {
-            let r = black_box(&machine.steering).try_next_setting(
+        b.worst(out, "orbit::try_single_step", || {
+            let r = control::set_point(
+                black_box(&machine.steering),
                 black_box(m),
                 black_box(offset),
-                0.0,
                 black_box(readback),
             );
             black_box(r.is_ok())
