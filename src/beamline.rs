@@ -61,7 +61,7 @@
 //! ```
 
 use crate::compensated::two_sum;
-use crate::transfer::{Envelope, TransferMap};
+use crate::transfer::{Envelope, Reference, TransferMap};
 use crate::{Error, Motion, Real, optics, try_finite};
 
 /// The direction of a thin kick in the transverse plane (a non-finite angle is refused by
@@ -480,8 +480,9 @@ impl<T: Real> Element<T> {
         &self,
         map: &mut TransferMap<T>,
         reference: &mut Motion<T>,
+        numbers: &mut Reference<T>,
     ) -> Result<(), Error> {
-        let r = &*reference;
+        let r = &*numbers;
         // the most common elements update the map in place, without a map of their own
         let m = match *self {
             Self::Drift { length_m } => {
@@ -526,21 +527,16 @@ impl<T: Real> Element<T> {
                 angle_rad,
                 entry_angle_rad,
                 exit_angle_rad,
-            } => TransferMap::try_sector_dipole(
-                r,
-                length_m,
-                angle_rad,
-                entry_angle_rad,
-                exit_angle_rad,
-            )?,
-            Self::Solenoid { length_m, field_t } => {
-                TransferMap::try_solenoid(r, length_m, field_t)?
+            } => {
+                TransferMap::sector_dipole(r, length_m, angle_rad, entry_angle_rad, exit_angle_rad)?
             }
+            Self::Solenoid { length_m, field_t } => TransferMap::solenoid(r, length_m, field_t)?,
             Self::Monitor { .. } => return Ok(()),
             Self::AcceleratingGap { voltage_v } => {
-                let (slope, delta, after) = TransferMap::gap_parts(r, voltage_v)?;
+                let (slope, delta, after) = TransferMap::gap_parts(reference, voltage_v)?;
                 map.then_gap(slope, delta);
                 *reference = after;
+                *numbers = Reference::new(&after);
                 return Ok(());
             }
             Self::MagneticKick { .. } | Self::ElectrostaticKick { .. } => {
@@ -1152,8 +1148,9 @@ impl<T: Real, const N: usize> BeamLine<T, N> {
             }
         }
         let mut map = TransferMap::IDENTITY;
+        let mut numbers = Reference::new(&r);
         for element in inside {
-            element.try_compose(&mut map, &mut r)?;
+            element.try_compose(&mut map, &mut r, &mut numbers)?;
         }
         Ok((map.try_check()?, r))
     }

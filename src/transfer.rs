@@ -84,6 +84,40 @@ fn charge_sign<T: Real>(motion: &Motion<T>) -> T {
     T::ONE.copysign(motion.species().charge())
 }
 
+/// The numbers of the reference that the elements' maps need, computed once per energy (a line
+/// computes them at its start and after each gap, not once per element).
+#[derive(Clone, Copy, Debug)]
+pub(crate) struct Reference<T: Real> {
+    /// `+1` or `−1`, the sign of the charge.
+    sign: T,
+    /// `Bρ` in T m, or why there is none (a neutral species).
+    brho: Result<T, Error>,
+    /// `Eρ` in V, or why there is none.
+    erho: Result<T, Error>,
+    /// `1/v` in s/m.
+    per_metre: T,
+    /// `γ`.
+    gamma: T,
+    /// `R56` per metre of straight element, `−1/(v γ²)` in s/m.
+    time_per_metre: T,
+}
+
+impl<T: Real> Reference<T> {
+    #[inline]
+    pub(crate) fn new(motion: &Motion<T>) -> Self {
+        let per_metre = motion.flight_time_per_metre();
+        let gamma = motion.gamma();
+        Self {
+            sign: charge_sign(motion),
+            brho: magnetic_rigidity(motion),
+            erho: electric_rigidity(motion),
+            per_metre,
+            gamma,
+            time_per_metre: -(per_metre / gamma) / gamma,
+        }
+    }
+}
+
 /// `Ok(x)` for a finite `x`, else [`Error::Overflow`].
 #[inline]
 fn fits<T: Real>(x: T) -> Result<T, Error> {
@@ -252,9 +286,12 @@ impl<T: Real> TransferMap<T> {
     /// `R56 = −L/(v γ²)` of a straight element of length `L`: the later arrival of a slower
     /// particle (`dv/v = δ/γ²`).
     #[inline]
-    fn straight_time(motion: &Motion<T>, length_m: T) -> Result<T, Error> {
-        let gamma = motion.gamma();
-        fits(-(motion.flight_time(length_m) / gamma) / gamma)
+    fn straight_time(reference: &Reference<T>, length_m: T) -> Result<T, Error> {
+        if length_m == T::ZERO {
+            // no length, no time, even at rest (avoids 0 · ∞)
+            return Ok(T::ZERO);
+        }
+        fits(length_m * reference.time_per_metre)
     }
 
     /// A field-free drift of length `L` (m, ≥ 0): `R12 = R34 = L`, `R56 = −L/(v γ²)`.
@@ -276,16 +313,16 @@ impl<T: Real> TransferMap<T> {
     /// ```
     #[inline(always)]
     pub fn try_drift(motion: &Motion<T>, length_m: T) -> Result<Self, Error> {
-        let (l, r56) = Self::drift_parts(motion, length_m)?;
+        let (l, r56) = Self::drift_parts(&Reference::new(motion), length_m)?;
         let block = [[T::ONE, l], [T::ZERO, T::ONE]];
         Ok(Self::uncoupled(block, block, r56))
     }
 
     /// A drift's length (checked) and `R56`.
     #[inline(always)]
-    pub(crate) fn drift_parts(motion: &Motion<T>, length_m: T) -> Result<(T, T), Error> {
+    pub(crate) fn drift_parts(reference: &Reference<T>, length_m: T) -> Result<(T, T), Error> {
         let l = nonnegative(length_m)?;
-        Ok((l, Self::straight_time(motion, l)?))
+        Ok((l, Self::straight_time(reference, l)?))
     }
 
     /// A thick magnetic quadrupole of length `L` (m, > 0) and gradient `G = ∂B_y/∂x` (T/m).
@@ -315,30 +352,31 @@ impl<T: Real> TransferMap<T> {
         length_m: T,
         gradient_t_per_m: T,
     ) -> Result<Self, Error> {
-        let (x, y, r56) = Self::quadrupole_blocks(motion, length_m, gradient_t_per_m)?;
+        let (x, y, r56) =
+            Self::quadrupole_blocks(&Reference::new(motion), length_m, gradient_t_per_m)?;
         Ok(Self::uncoupled(x, y, r56))
     }
 
     /// The horizontal and vertical blocks and `R56` of a magnetic quadrupole.
     #[inline(always)]
     pub(crate) fn quadrupole_blocks(
-        motion: &Motion<T>,
+        reference: &Reference<T>,
         length_m: T,
         gradient_t_per_m: T,
     ) -> Result<Blocks<T>, Error> {
         let l = positive(length_m)?;
         let g = try_finite(gradient_t_per_m)?;
-        let k = fits(charge_sign(motion) * g / magnetic_rigidity(motion)?)?;
-        Self::lens_blocks(motion, k, l)
+        let k = fits(reference.sign * g / reference.brho?)?;
+        Self::lens_blocks(reference, k, l)
     }
 
     /// A thick quadrupole lens of strength `k` (1/m², `> 0` focuses in `x`) and length `L`.
     #[inline(always)]
-    fn lens_blocks(motion: &Motion<T>, k: T, length_m: T) -> Result<Blocks<T>, Error> {
+    fn lens_blocks(reference: &Reference<T>, k: T, length_m: T) -> Result<Blocks<T>, Error> {
         Ok((
             focusing_plane(k, length_m)?,
             focusing_plane(-k, length_m)?,
-            Self::straight_time(motion, length_m)?,
+            Self::straight_time(reference, length_m)?,
         ))
     }
 
@@ -364,18 +402,19 @@ impl<T: Real> TransferMap<T> {
         motion: &Motion<T>,
         integrated_gradient_t: T,
     ) -> Result<Self, Error> {
-        let (x, y, r56) = Self::thin_quadrupole_blocks(motion, integrated_gradient_t)?;
+        let (x, y, r56) =
+            Self::thin_quadrupole_blocks(&Reference::new(motion), integrated_gradient_t)?;
         Ok(Self::uncoupled(x, y, r56))
     }
 
     /// The blocks of a thin quadrupole (no time).
     #[inline(always)]
     pub(crate) fn thin_quadrupole_blocks(
-        motion: &Motion<T>,
+        reference: &Reference<T>,
         integrated_gradient_t: T,
     ) -> Result<Blocks<T>, Error> {
         let gl = try_finite(integrated_gradient_t)?;
-        let inverse_focal = fits(charge_sign(motion) * gl / magnetic_rigidity(motion)?)?;
+        let inverse_focal = fits(reference.sign * gl / reference.brho?)?;
         Ok((
             [[T::ONE, T::ZERO], [-inverse_focal, T::ONE]],
             [[T::ONE, T::ZERO], [inverse_focal, T::ONE]],
@@ -410,15 +449,19 @@ impl<T: Real> TransferMap<T> {
         voltage_v: T,
         aperture_radius_m: T,
     ) -> Result<Self, Error> {
-        let (x, y, r56) =
-            Self::electrostatic_quadrupole_blocks(motion, length_m, voltage_v, aperture_radius_m)?;
+        let (x, y, r56) = Self::electrostatic_quadrupole_blocks(
+            &Reference::new(motion),
+            length_m,
+            voltage_v,
+            aperture_radius_m,
+        )?;
         Ok(Self::uncoupled(x, y, r56))
     }
 
     /// The blocks and `R56` of an electrostatic quadrupole.
     #[inline(always)]
     pub(crate) fn electrostatic_quadrupole_blocks(
-        motion: &Motion<T>,
+        reference: &Reference<T>,
         length_m: T,
         voltage_v: T,
         aperture_radius_m: T,
@@ -426,8 +469,8 @@ impl<T: Real> TransferMap<T> {
         let l = positive(length_m)?;
         let v = try_finite(voltage_v)?;
         let a = positive(aperture_radius_m)?;
-        let k = fits(charge_sign(motion) * ((v + v) / (a * a)) / electric_rigidity(motion)?)?;
-        Self::lens_blocks(motion, k, l)
+        let k = fits(reference.sign * ((v + v) / (a * a)) / reference.erho?)?;
+        Self::lens_blocks(reference, k, l)
     }
 
     /// A sector dipole of arc length `L` (m, > 0) bending by `θ` (rad, signed; `ρ = L/θ`), with
@@ -464,6 +507,24 @@ impl<T: Real> TransferMap<T> {
         entry_rad: T,
         exit_rad: T,
     ) -> Result<Self, Error> {
+        Self::sector_dipole(
+            &Reference::new(motion),
+            length_m,
+            angle_rad,
+            entry_rad,
+            exit_rad,
+        )
+    }
+
+    /// [`try_sector_dipole`](Self::try_sector_dipole) at a reference computed once.
+    #[inline(always)]
+    pub(crate) fn sector_dipole(
+        reference: &Reference<T>,
+        length_m: T,
+        angle_rad: T,
+        entry_rad: T,
+        exit_rad: T,
+    ) -> Result<Self, Error> {
         let l = positive(length_m)?;
         let theta = try_finite(angle_rad)?;
         let (e1, e2) = (edge_angle(entry_rad)?, edge_angle(exit_rad)?);
@@ -486,8 +547,7 @@ impl<T: Real> TransferMap<T> {
         let y11 = T::ONE - theta * t1;
         let y22 = T::ONE - theta * t2;
         let y21 = -h * (t1 + t2 - theta * t1 * t2);
-        let per_metre = motion.flight_time_per_metre();
-        let gamma = motion.gamma();
+        let (per_metre, gamma) = (reference.per_metre, reference.gamma);
         // (ρ(θ − sin θ) − L/γ²)/v
         let r56 = (l * one_minus_sinc(theta) - l / gamma / gamma) * per_metre;
         let z = T::ZERO;
@@ -535,10 +595,20 @@ impl<T: Real> TransferMap<T> {
     /// ```
     #[inline(always)]
     pub fn try_solenoid(motion: &Motion<T>, length_m: T, field_t: T) -> Result<Self, Error> {
+        Self::solenoid(&Reference::new(motion), length_m, field_t)
+    }
+
+    /// [`try_solenoid`](Self::try_solenoid) at a reference computed once.
+    #[inline(always)]
+    pub(crate) fn solenoid(
+        reference: &Reference<T>,
+        length_m: T,
+        field_t: T,
+    ) -> Result<Self, Error> {
         let l = positive(length_m)?;
         let b = try_finite(field_t)?;
-        let brho = magnetic_rigidity(motion)?;
-        let kappa = fits(charge_sign(motion) * b / (brho + brho))?;
+        let brho = reference.brho?;
+        let kappa = fits(reference.sign * b / (brho + brho))?;
         let phi = kappa * l;
         let (s, c) = phi.sin_cos();
         let sl = l * sinc_of(phi, s); // S/K
@@ -555,7 +625,7 @@ impl<T: Real> TransferMap<T> {
             ],
             dispersion: [z; 4],
             time: [z; 4],
-            time_per_delta: Self::straight_time(motion, l)?,
+            time_per_delta: Self::straight_time(reference, l)?,
             delta_scale: T::ONE,
             coupled: true,
         }
@@ -825,16 +895,22 @@ impl<T: Real> TransferMap<T> {
     #[inline(always)]
     pub(crate) fn then_drift(&mut self, (l, r56): (T, T)) {
         self.time_per_delta += r56 * self.delta_scale;
-        let [r0, r1, r2, r3] = &mut self.transverse;
-        for (a, &b) in r0.iter_mut().zip(r1.iter()) {
-            *a += l * b;
+        let [
+            [a0, a1, a2, a3],
+            [b0, b1, b2, b3],
+            [c0, c1, c2, c3],
+            [e0, e1, e2, e3],
+        ] = self.transverse;
+        let [d0, d1, d2, d3] = self.dispersion;
+        if self.coupled {
+            self.transverse[0] = [a0 + l * b0, a1 + l * b1, a2 + l * b2, a3 + l * b3];
+            self.transverse[2] = [c0 + l * e0, c1 + l * e1, c2 + l * e2, c3 + l * e3];
+        } else {
+            let z = T::ZERO;
+            self.transverse[0] = [a0 + l * b0, a1 + l * b1, z, z];
+            self.transverse[2] = [z, z, c2 + l * e2, c3 + l * e3];
         }
-        for (a, &b) in r2.iter_mut().zip(r3.iter()) {
-            *a += l * b;
-        }
-        let [d0, d1, d2, d3] = &mut self.dispersion;
-        *d0 += l * *d1;
-        *d2 += l * *d3;
+        self.dispersion = [d0 + l * d1, d1, d2 + l * d3, d3];
     }
 
     /// The state `(x, x', y, y', Δt, δ)` after the map.
