@@ -197,7 +197,7 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
     /// [`Error::OutOfBounds`] for an index `≥ M` (`≥ C`) or a monitor or corrector that does not
     /// appear exactly once; [`Error::ZeroCharge`] for a neutral beam; [`Error::Overflow`] for
     /// a rigidity or a response that does not fit the precision; [`Error::NonFinite`] for a
-    /// non-finite kick direction.
+    /// non-finite kick direction or a rotated kick beyond `|φ| = 8192` rad ([`Real::sin_cos`]).
     ///
     /// # Examples
     /// ```
@@ -353,7 +353,15 @@ impl<T: Real, const M: usize, const C: usize> Response<T, M, C> {
                         return Err(Error::OutOfBounds);
                     };
                     *k = kappa;
-                    let (cx, cy) = direction.components();
+                    // (in the working precision only: no software double on a chip)
+                    let (cx, cy) = match direction {
+                        KickDirection::Horizontal => (T::ONE, T::ZERO),
+                        KickDirection::Vertical => (T::ZERO, T::ONE),
+                        KickDirection::Angle(phi) => {
+                            let (sin, cos) = phi.sin_cos();
+                            (cos, sin)
+                        }
+                    };
                     *ray = [
                         T::ZERO,
                         try_finite(cx)?,
@@ -1711,6 +1719,8 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         moved: &mut u32,
     ) -> Result<u32, Error> {
         let mut newly = 0;
+        // The moved mask in a register, written once.
+        let mut moved_now = *moved;
         for (j, (((ds, s), c), n)) in step
             .iter_mut()
             .zip(settings)
@@ -1727,7 +1737,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             if wanted.abs() <= c.max_step && candidate >= c.min && candidate <= c.max {
                 *n = candidate;
                 if candidate != *s {
-                    *moved |= 1 << j;
+                    moved_now |= 1 << j;
                 }
                 continue;
             }
@@ -1763,11 +1773,12 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             }
             *n = clamp(s + clipped, c.min, c.max);
             if *n != s {
-                *moved |= 1 << j;
+                moved_now |= 1 << j;
             } else {
-                *moved &= !(1 << j);
+                moved_now &= !(1 << j);
             }
         }
+        *moved = moved_now;
         Ok(newly)
     }
 
