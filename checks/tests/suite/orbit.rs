@@ -749,3 +749,46 @@ fn single_step_is_the_one_by_one_loop() {
         Err(Error::Overflow)
     );
 }
+
+/// After a monitor fails, the step is the one a loop built without that monitor takes (weight 0),
+/// to rounding, coupled or not.
+#[test]
+fn decomposition_after_a_failure_matches_a_fresh_one() {
+    let mut rng = Rng(77);
+    for case in 0..40 {
+        let r = random_response(&mut rng, case % 2 == 0);
+        let k = kappa(&mut rng);
+        let tuning = Tuning::try_new(0.8, 0.05 * (case % 3) as f64, 1e-9).unwrap();
+        let mut orbit = orbit_f64(r, k, tuning);
+        let b = readings(&mut rng);
+        let mut s = [0.0; C];
+        orbit.try_step(&b, &mut s).unwrap();
+        let failed = case % M;
+        let mut b2 = readings(&mut rng);
+        b2[failed] = [f64::NAN, 0.0];
+        let start = s;
+        let out = orbit.try_step(&b2, &mut s).unwrap();
+        assert!(out.decomposed() && !out.monitor_in_use(failed));
+        let response = Response::try_new(r, k).unwrap();
+        let mut monitors = [Monitor::try_new(1.0, 1.0).unwrap(); M];
+        monitors[failed] = Monitor::try_new(1.0, 0.0).unwrap();
+        let mut fresh =
+            Orbit::<f64, M, C>::try_new(response, monitors, [loose_corrector(); C], tuning)
+                .unwrap();
+        let mut s_fresh = start;
+        b2[failed] = [0.0, 0.0];
+        fresh.try_step(&b2, &mut s_fresh).unwrap();
+        let scale = s_fresh
+            .iter()
+            .zip(&start)
+            .fold(0.0_f64, |a, (x, y)| a.max((x - y).abs()));
+        for j in 0..C {
+            assert!(
+                (s[j] - s_fresh[j]).abs() <= 1e-10 * scale,
+                "case {case} corrector {j}: {} vs {}",
+                s[j],
+                s_fresh[j]
+            );
+        }
+    }
+}
