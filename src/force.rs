@@ -82,10 +82,17 @@ impl<T: Real> FieldTensor<T> {
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     pub fn try_four_force(&self, charge: T, u: FourVector<T>) -> Result<FourVector<T>, Error> {
-        if !charge.is_finite() || !u.is_finite() || !self.is_finite() {
-            return Err(Error::NonFinite);
+        // Every input enters some product of the result (Q all of them, each component of u and
+        // of the field at least one), so a non-finite input always gives a non-finite result: the
+        // inputs are examined only then, to tell NonFinite from Overflow.
+        let k = self.four_force(charge, u);
+        if k.is_finite() {
+            Ok(k)
+        } else if !charge.is_finite() || !u.is_finite() || !self.is_finite() {
+            Err(Error::NonFinite)
+        } else {
+            Err(Error::Overflow)
         }
-        finite_result(self.four_force(charge, u))
     }
 
     /// The four-force `K^μ = γ(qE·v/c, q(E + v × B))` in newtons.
@@ -234,6 +241,36 @@ mod tests {
         assert_eq!(
             f.try_power_watts(1.0, ThreeVector::new(0.0, f64::NAN, 0.0)),
             Err(Error::NonFinite)
+        );
+    }
+
+    #[test]
+    fn every_non_finite_input_is_named_even_where_it_meets_a_zero() {
+        // Q and the field zero, u at rest: each non-finite input still reaches the result.
+        let zero = FieldTensor::<f32>::ZERO;
+        let rest = FourVector::AT_REST;
+        let inf = f32::INFINITY;
+        assert_eq!(zero.try_four_force(inf, rest), Err(Error::NonFinite));
+        for u in [
+            FourVector::new(inf, 0.0, 0.0, 0.0),
+            FourVector::new(1.0, 0.0, f32::NAN, 0.0),
+            FourVector::new(1.0, 0.0, 0.0, -inf),
+        ] {
+            assert_eq!(zero.try_four_force(0.0, u), Err(Error::NonFinite));
+        }
+        for (e, cb) in [
+            (ThreeVector::new(inf, 0.0, 0.0), ThreeVector::ZERO),
+            (ThreeVector::ZERO, ThreeVector::new(0.0, 0.0, inf)),
+            (ThreeVector::ZERO, ThreeVector::new(f32::NAN, 0.0, 0.0)),
+        ] {
+            let f = FieldTensor::from_scaled(e, cb);
+            assert_eq!(f.try_four_force(0.0, rest), Err(Error::NonFinite));
+        }
+        let big =
+            FieldTensor::from_scaled(ThreeVector::new(3.0e38_f32, 0.0, 0.0), ThreeVector::ZERO);
+        assert_eq!(
+            big.try_four_force(1.0, FourVector::new(2.0, 1.0, 0.0, 0.0)),
+            Err(Error::Overflow)
         );
     }
 

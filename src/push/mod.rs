@@ -473,6 +473,18 @@ fn compensated_add2<T: Real>(
     )
 }
 
+/// The error of a step whose result is not finite: [`Error::NonFinite`] when the field was (a
+/// non-finite field always makes the step non-finite, so it is examined only then),
+/// [`Error::Overflow`] otherwise.
+#[cold]
+fn refusal<T: Real>(field: &FieldTensor<T>) -> Error {
+    if field.is_finite() {
+        Error::Overflow
+    } else {
+        Error::NonFinite
+    }
+}
+
 /// `γ = √(1 + |u|²)` of `u = hi + lo` (`lo` far below `hi`): `|u|² = |hi|² + 2 hi·lo`.
 #[inline(always)]
 fn gamma_of<T: Real>(hi: ThreeVector<T>, lo: ThreeVector<T>) -> T {
@@ -764,9 +776,6 @@ pub trait Pusher<T: Real>: Sized {
         source: &S,
     ) -> Result<(), Error> {
         let field = source.field_at(particle.position, particle.time());
-        if !field.is_finite() {
-            return Err(Error::NonFinite);
-        }
         let change = self.beta_gamma_change(particle.beta_gamma, particle.gamma, &field);
         let (beta_gamma, beta_gamma_carry, beta_gamma_carry_low) = compensated_add2(
             particle.beta_gamma,
@@ -785,7 +794,7 @@ pub trait Pusher<T: Real>: Sized {
             && gamma.is_finite()
             && (carries.x + carries.y + carries.z).is_finite())
         {
-            return Err(Error::Overflow);
+            return Err(refusal(&field));
         }
         particle.beta_gamma = beta_gamma;
         particle.beta_gamma_carry = beta_gamma_carry;
@@ -826,13 +835,10 @@ pub trait Pusher<T: Real>: Sized {
         source: &S,
     ) -> Result<(), Error> {
         let field = source.field_at(particle.position, particle.time());
-        if !field.is_finite() {
-            return Err(Error::NonFinite);
-        }
         let (beta_gamma, gamma) = self.push_beta_gamma(particle.beta_gamma, particle.gamma, &field);
         let position = particle.position + beta_gamma * (self.factors().c_dt / gamma);
         if !(beta_gamma.is_finite() && position.is_finite() && gamma.is_finite()) {
-            return Err(Error::Overflow);
+            return Err(refusal(&field));
         }
         particle.beta_gamma = beta_gamma;
         particle.gamma = gamma;
@@ -1003,6 +1009,37 @@ mod tests {
         }
         let exact = 2.0e7 * f64::from(1.0e-9_f32);
         assert!((f64::from(p.time()) / exact - 1.0).abs() < f64::from(f32::EPSILON));
+    }
+
+    #[test]
+    fn a_non_finite_field_is_refused_as_such_by_every_scheme_and_form() {
+        use crate::Species;
+        let inf = f32::INFINITY;
+        let fields = [
+            FieldTensor::from_scaled(ThreeVector::new(inf, 0.0, 0.0), ThreeVector::ZERO),
+            FieldTensor::from_scaled(ThreeVector::ZERO, ThreeVector::new(0.0, 0.0, inf)),
+            FieldTensor::from_scaled(ThreeVector::ZERO, ThreeVector::new(f32::NAN, 0.0, 0.0)),
+        ];
+        // A neutral species multiplies the field by zero; a particle at rest crosses nothing.
+        for species in [Species::PROTON, Species::NEUTRON] {
+            for f in &fields {
+                for start in [
+                    Particle::at_rest(ThreeVector::ZERO),
+                    Particle::try_new(ThreeVector::ZERO, ThreeVector::new(0.5, 0.0, 0.0), 0.0)
+                        .unwrap(),
+                ] {
+                    fn check<P: Pusher<f32>>(p: &P, start: Particle<f32>, f: &FieldTensor<f32>) {
+                        let mut q = start;
+                        assert_eq!(p.try_step(&mut q, f), Err(Error::NonFinite));
+                        assert_eq!(p.try_step_plain(&mut q, f), Err(Error::NonFinite));
+                        assert_eq!(q, start);
+                    }
+                    check(&Boris::try_new(species, 1.0e-9).unwrap(), start, f);
+                    check(&Vay::try_new(species, 1.0e-9).unwrap(), start, f);
+                    check(&HigueraCary::try_new(species, 1.0e-9).unwrap(), start, f);
+                }
+            }
+        }
     }
 
     #[test]

@@ -292,7 +292,7 @@ pub fn cycle<T: Real>(
         machine.corrector_length_m / motion.speed(),
     )?;
     // One step from a fresh particle: nothing to carry into a next step, so the plain sums (the
-    // compensated `try_step` keeps kicks below an ulp over many steps, at about 50 % more cost).
+    // compensated `try_step` keeps kicks below an ulp over many steps, at about 60 % more cost).
     pusher.try_step_plain(&mut particle, &field)?;
     let u = particle.beta_gamma();
     Ok(Cycle {
