@@ -32,6 +32,13 @@
 //! When the line does not couple the planes (every corrector moves only x or only y readings), the
 //! two planes are decomposed separately, which costs a quarter of one coupled decomposition.
 //!
+//! # Promised accuracy
+//! The step is within `16 ε (κ + κ² tan θ)` of the exact regularised least-squares step, relative
+//! to its largest entry, in `f32` and in `f64` (κ the condition number of the weighted response in
+//! kick angles, `tan θ = ‖residual‖/(σ_max ‖step‖)`: the sensitivity of least squares itself;
+//! tested against nalgebra and against the `f64` step). A [`Calibration`] returns the drive of a
+//! setting within `4 ε` of its segment's largest drive.
+//!
 //! # Limits (an active-set step)
 //! Each corrector has a setting range `[min, max]` (saturation) and a largest change per
 //! iteration (rate). A corrector whose step would cross a limit is held at that limit, and the

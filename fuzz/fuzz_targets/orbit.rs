@@ -1,13 +1,16 @@
 //! Door: the orbit correction from outside numbers (`Response::try_new`, `Monitor::try_new`,
 //! `Corrector::try_new`, `Tuning::try_new`, `Orbit::try_new`, a few `Orbit::try_step` with any
-//! readings and set points, `Orbit::try_set_response`, `Calibration::try_new`, `try_setting`,
+//! readings and set points, `Orbit::try_set_response`, `orbit::try_single_step`,
+//! `Calibration::try_new`, `try_setting`,
 //! `try_drive`) in both precisions: no panic; after a correcting step every set point within its
 //! corrector's range (so finite); a failed step leaves the set points alone; a hold moves
 //! nothing.
 #![no_main]
 
 use fourforce::Error;
-use fourforce::orbit::{Calibration, Corrector, Monitor, Orbit, Response, State, Tuning};
+use fourforce::orbit::{
+    Calibration, Corrector, Monitor, Orbit, Response, State, Tuning, try_single_step,
+};
 use fuzzkit::{Bits, Input, both_precisions};
 use libfuzzer_sys::fuzz_target;
 
@@ -16,7 +19,9 @@ const C: usize = 4;
 
 /// Bit for bit (a NaN set point stays the same NaN).
 fn same<T: Bits>(a: &[T; C], b: &[T; C]) -> bool {
-    a.iter().zip(b).all(|(x, y)| x.to_bits_u64() == y.to_bits_u64())
+    a.iter()
+        .zip(b)
+        .all(|(x, y)| x.to_bits_u64() == y.to_bits_u64())
 }
 
 fn run<T: Bits>(input: &mut Input<'_>) {
@@ -38,11 +43,15 @@ fn run<T: Bits>(input: &mut Input<'_>) {
     let corrector = match Corrector::try_new(lo, hi, rate) {
         Ok(c) => c,
         Err(e) => {
-            assert!(matches!(e, Error::NonFinite | Error::InvalidRange | Error::NegativeMagnitude));
+            assert!(matches!(
+                e,
+                Error::NonFinite | Error::InvalidRange | Error::NegativeMagnitude
+            ));
             return;
         }
     };
-    let Ok(tuning) = Tuning::try_new(input.real::<T>(), input.real::<T>(), input.real::<T>()) else {
+    let Ok(tuning) = Tuning::try_new(input.real::<T>(), input.real::<T>(), input.real::<T>())
+    else {
         return;
     };
     let Ok(mut orbit) = Orbit::<T, M, C>::try_new(response, [monitor; M], [corrector; C], tuning)
@@ -69,7 +78,10 @@ fn run<T: Bits>(input: &mut Input<'_>) {
                     }
                 }
             },
-            Err(_) => assert!(same(&settings, &before), "a failed step changed the set points"),
+            Err(_) => assert!(
+                same(&settings, &before),
+                "a failed step changed the set points"
+            ),
         }
         if input.u8() % 4 == 0 {
             let mut kappa2 = kappa;
@@ -83,6 +95,14 @@ fn run<T: Bits>(input: &mut Input<'_>) {
                     Err(_) => assert!(same(&settings, &before)),
                 }
             }
+        }
+    }
+    // the one-corrector closed form: within the range after a correcting step
+    let (r, x, s0) = (input.real::<T>(), input.real::<T>(), input.real::<T>());
+    if let Ok((s, out)) = try_single_step(&corrector, &tuning, r, x, s0) {
+        match out.state() {
+            State::Correcting => assert!(s >= corrector.min() && s <= corrector.max(), "{s:?}"),
+            State::Hold { .. } => assert!(r == T::ZERO),
         }
     }
     let drive = [input.real::<T>(), input.real::<T>(), input.real::<T>()];
