@@ -475,13 +475,6 @@ impl<T: Real> Boost<T> {
     }
 }
 
-impl<T: Real> From<Boost<T>> for LorentzTransform<T> {
-    #[inline]
-    fn from(b: Boost<T>) -> Self {
-        b.to_transform()
-    }
-}
-
 /// `a·b` of two rows of four.
 #[inline(always)]
 fn dot4<T: Real>(a: [T; 4], b: [T; 4]) -> T {
