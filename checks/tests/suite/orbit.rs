@@ -792,3 +792,54 @@ fn decomposition_after_a_failure_matches_a_fresh_one() {
         }
     }
 }
+
+#[path = "../../../examples/steering_loop/line.rs"]
+mod line;
+
+/// The demo's line (8 cells with focusing, 8 monitors, 6 + 6 correctors; its response from the
+/// transfer maps): an orbit the correctors can cancel shrinks by exactly (1 − g) per iteration
+/// with α = 0, so the iterations to a factor 10⁻⁶ are the ones the theory gives (one at g = 1).
+#[test]
+fn known_line_converges_as_theory_says() {
+    for &g in &[0.4, 0.7, 1.0] {
+        let r64 = line::try_response::<f64>(line::NOMINAL_EV, 1.0).unwrap();
+        let monitor = Monitor::try_new(0.01, 1.0).unwrap();
+        let mut orbit = Orbit::<f64, 8, 12>::try_new(
+            r64,
+            [monitor; 8],
+            [Corrector::try_new(-1.0, 1.0, 1.0).unwrap(); 12],
+            Tuning::try_new(g, 0.0, 1e-9).unwrap(),
+        )
+        .unwrap();
+        let kicks: [f64; 12] = core::array::from_fn(|j| 1.0e-4 * (j as f64 - 5.5));
+        let start = r64.predict(&kicks);
+        let first = start
+            .as_flattened()
+            .iter()
+            .map(|x| x * x)
+            .sum::<f64>()
+            .sqrt();
+        let want = if g == 1.0 {
+            1
+        } else {
+            (1.0e-6_f64.ln() / (1.0 - g).ln()).ceil() as usize
+        };
+        let mut settings = [0.0; 12];
+        let mut took = None;
+        for n in 1..=want + 3 {
+            let moved = r64.predict(&settings);
+            let mut b = start;
+            for (o, m) in b.iter_mut().zip(&moved) {
+                o[0] += m[0];
+                o[1] += m[1];
+            }
+            let rms = b.as_flattened().iter().map(|x| x * x).sum::<f64>().sqrt();
+            if rms <= 1.0e-6 * first {
+                took = Some(n - 1);
+                break;
+            }
+            orbit.try_step(&b, &mut settings).unwrap();
+        }
+        assert_eq!(took, Some(want), "gain {g}");
+    }
+}
