@@ -1017,32 +1017,55 @@ pub fn try_single_step<T: Real>(
     {
         return Ok((candidate, outcome));
     }
-    let (lo_range, hi_range) = (corrector.min - s, corrector.max - s);
-    let lo = if lo_range > -corrector.max_step {
-        lo_range
-    } else {
-        -corrector.max_step
-    };
-    let hi = if hi_range < corrector.max_step {
-        hi_range
-    } else {
-        corrector.max_step
-    };
-    let step = if wanted > hi {
-        hi
-    } else if wanted < lo {
-        lo
-    } else {
-        wanted
-    };
-    if step != wanted {
-        if step == hi_range || step == lo_range {
-            outcome.saturated = 1;
-        } else {
-            outcome.rate_limited = 1;
-        }
+    let (step, clip) = corrector.clip(s, wanted);
+    match clip {
+        Clip::Saturated => outcome.saturated = 1,
+        Clip::RateLimited => outcome.rate_limited = 1,
+        Clip::None => {}
     }
     Ok((clamp(s + step, corrector.min, corrector.max), outcome))
+}
+
+/// Which limit, if any, clipped a corrector's step.
+#[derive(Clone, Copy, PartialEq, Eq)]
+enum Clip {
+    None,
+    Saturated,
+    RateLimited,
+}
+
+impl<T: Real> Corrector<T> {
+    /// The step from the in-range set point `s` toward the finite `wanted`, clipped to the rate
+    /// (`|step| ≤ max_step`) and to the range (`min ≤ s + step ≤ max`), and which limit acted.
+    #[inline(always)]
+    fn clip(&self, s: T, wanted: T) -> (T, Clip) {
+        let (lo_range, hi_range) = (self.min - s, self.max - s);
+        let lo = if lo_range > -self.max_step {
+            lo_range
+        } else {
+            -self.max_step
+        };
+        let hi = if hi_range < self.max_step {
+            hi_range
+        } else {
+            self.max_step
+        };
+        let step = if wanted > hi {
+            hi
+        } else if wanted < lo {
+            lo
+        } else {
+            wanted
+        };
+        let clip = if step == wanted {
+            Clip::None
+        } else if step == hi_range || step == lo_range {
+            Clip::Saturated
+        } else {
+            Clip::RateLimited
+        };
+        (step, clip)
+    }
 }
 
 /// `x` brought into `[lo, hi]` by comparisons (finite inputs; libm's `fminf`/`fmaxf` are calls
@@ -1751,28 +1774,11 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             let s = clamp(try_finite(*s)?, c.min, c.max);
             // A step that does not fit the precision (a response or κ at the edge of the range)
             try_finite(wanted).map_err(|_| Error::Overflow)?;
-            let (lo_range, hi_range) = (c.min - s, c.max - s);
-            let lo = if lo_range > -c.max_step {
-                lo_range
-            } else {
-                -c.max_step
-            };
-            let hi = if hi_range < c.max_step {
-                hi_range
-            } else {
-                c.max_step
-            };
-            let clipped = if wanted > hi {
-                hi
-            } else if wanted < lo {
-                lo
-            } else {
-                wanted
-            };
-            if clipped != wanted {
+            let (clipped, clip) = c.clip(s, wanted);
+            if clip != Clip::None {
                 *ds = clipped;
                 newly |= 1 << j;
-                if clipped == hi_range || clipped == lo_range {
+                if clip == Clip::Saturated {
                     outcome.saturated |= 1 << j;
                 } else {
                     outcome.rate_limited |= 1 << j;
