@@ -486,7 +486,7 @@ mod against_nalgebra {
     //!   (Jackson 3rd ed. §11.3 eq. 11.98, from memory), against [`Boost::to_transform`], `Λx`
     //!   against [`Boost::apply`] and `Λ F Λᵀ` against [`Boost::apply_field`];
     //! - `Λ⁻¹` (nalgebra's general inverse) against [`LorentzTransform::inverse`], products against
-    //!   [`LorentzTransform::compose`], and `Λᵀ η Λ = η`.
+    //!   [`LorentzTransform::then`], and `Λᵀ η Λ = η`.
     // Reference values are typed with all their digits; tests compare floats exactly on purpose.
     #![allow(clippy::excessive_precision, clippy::float_cmp)]
 

@@ -4,8 +4,8 @@
 //! rounding error into the next step. The checks compare an `f32` run with an `f64` run of the
 //! same scheme from the same (`f32`-exact) start, so the reference is the scheme itself in twice
 //! the precision (its own rounding is far below the bounds); the analytic values they would both
-//! be compared with are those of `motion_push` (published-checks §7.3 and §7.5, with their sources
-//! there).
+//! be compared with are those of the suite module `push` (crossed fields and gyration, [Jackson]
+//! §12.2–12.3 from memory, values [mpmath]; see `checks/tests/reference/SOURCES.md`).
 //!
 //! Bound (the doc of `Pusher::try_step`): over 10² to 10⁶ steps through a uniform electric field,
 //! the energy gain, the position and the time of the `f32` run agree with the `f64` run to 10⁻⁵
@@ -202,7 +202,7 @@ fn gap_agreement<P32: Pusher<f32>, P64: Pusher<f64>>(scheme: &str, steps: u32, c
 
 /// `|x| / L` after one period of the β_d = 0.5 crossed-field orbit of an electron from rest
 /// (0.01 T, E = 1 498 962.29 V/m; back at rest at x = 0.824 436 635 769 m after
-/// 5.500 049 209 17 ns: published-checks §7.3 [J §12.3, from memory; mp]).
+/// 5.500 049 209 17 ns: [Jackson] §12.3, from memory; values [mpmath]).
 fn crossed_error<T: Real, P: Pusher<T>>(steps: u32) -> f64 {
     let (period, advance) = (5.500_049_209_17e-9, 0.824_436_635_769);
     let pusher = P::try_new(
@@ -228,7 +228,7 @@ fn crossed_error<T: Real, P: Pusher<T>>(steps: u32) -> f64 {
 }
 
 /// Radius error after one turn of a 10 MeV proton in 1 T (radius 0.458 155 375 777 m, period
-/// 66.293 573 517 0 ns: published-checks §7.1 [J §12.2, from memory; mp]), from the distance of
+/// 66.293 573 517 0 ns: [Jackson] §12.2, from memory; values [mpmath]), from the distance of
 /// the position after a whole period (the orbit closes) — here the distance from the start.
 fn gyration_error<T: Real, P: Pusher<T>>(steps: u32) -> f64 {
     let (period, radius) = (6.629_357_351_70e-8, 0.458_155_375_777);
