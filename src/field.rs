@@ -435,13 +435,13 @@ impl<T: Real> FieldTensor<T> {
         T::TWO * acc.value() * inv_c_squared::<T>()
     }
 
-    /// The scalar invariant `2(B² − E²/c²)` in T² from E in V/m and B in T, exact to about
-    /// 1.5 eps even near a null field.
+    /// The scalar invariant `2(B² − E²/c²)` in T² from E in V/m and B in T, within 1.5 eps even
+    /// near a null field.
     ///
     /// `cB` is split exactly with c in two parts (`C_HI + C_LO`) and exact products, and the six
     /// squares are summed with a compensated sum, the generalisation to vectors of
     /// `2(cB − E)(cB + E)/c²` with `cB − E = fma(C_HI, B, −E) + C_LO·B`. For E = cB(1 − 10⁻⁶),
-    /// B = 0.5 T it stays within 2 eps, where the plain `f32` formula is off by 4 %.
+    /// B = 0.5 T it stays within that bound, where the plain `f32` formula is off by 4 %.
     ///
     /// # Errors
     /// [`Error::NonFinite`] for a non-finite component; [`Error::Overflow`] for an |E| or |cB|

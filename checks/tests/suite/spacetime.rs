@@ -262,7 +262,7 @@ mod precision {
     //!   2 eps32 (the same for cB').
     //!
     //! Run with `cargo test -p fourforce-checks --release --test suite -- precision --nocapture` to print the worst measured
-    //! deviations (README and DEVELOPERS.md quote them).
+    //! deviations (`docs/accuracy.md` quotes them).
     // Reference values are typed with all their digits; tests compare floats exactly on purpose.
     #![allow(clippy::excessive_precision, clippy::float_cmp)]
 
