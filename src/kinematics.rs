@@ -52,6 +52,7 @@
 //! ```
 
 use crate::compensated::two_prod;
+use crate::real::fits;
 use crate::{Error, FourVector, Real, Species, ThreeVector};
 
 /// The state of motion of one particle of a [`Species`]: kinetic energy and everything derived.
@@ -79,16 +80,6 @@ pub struct Motion<T: Real> {
     beta_gamma: T,
     beta: T,
     one_minus_beta: T,
-}
-
-/// `Ok(x)` for a finite `x`, else [`Error::Overflow`]: the check on every computed field.
-#[inline]
-fn fits<T: Real>(x: T) -> Result<T, Error> {
-    if x.is_finite() {
-        Ok(x)
-    } else {
-        Err(Error::Overflow)
-    }
 }
 
 /// `x · c` with `c = C_HI + C_LO` (exact in both parts), so `f32` is not 10 m/s off.

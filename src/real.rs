@@ -529,6 +529,17 @@ pub fn try_finite<T: Real>(x: T) -> Result<T, crate::Error> {
     }
 }
 
+/// `Ok(x)` for a finite computed `x`, else [`Error::Overflow`](crate::Error::Overflow): the check
+/// on every computed result (an input is checked by [`try_finite`]).
+#[inline]
+pub(crate) fn fits<T: Real>(x: T) -> Result<T, crate::Error> {
+    if x.is_finite() {
+        Ok(x)
+    } else {
+        Err(crate::Error::Overflow)
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

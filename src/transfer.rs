@@ -64,6 +64,7 @@
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
+use crate::real::fits;
 use crate::{Error, Motion, Real, try_finite};
 
 /// Bρ of the reference, in T m.
@@ -115,16 +116,6 @@ impl<T: Real> Reference<T> {
             gamma,
             time_per_metre: -(per_metre / gamma) / gamma,
         }
-    }
-}
-
-/// `Ok(x)` for a finite `x`, else [`Error::Overflow`].
-#[inline]
-fn fits<T: Real>(x: T) -> Result<T, Error> {
-    if x.is_finite() {
-        Ok(x)
-    } else {
-        Err(Error::Overflow)
     }
 }
 

@@ -79,6 +79,7 @@
 
 use core::fmt;
 
+use crate::real::fits;
 use crate::{Error, Motion, Real, Species};
 
 /// The most witnesses one assessment takes: the critical-value table covers 1 to 15 degrees of
@@ -174,16 +175,6 @@ fn radius<T: Real>(x: T) -> Result<T, Error> {
         Ok(x)
     } else {
         Err(Error::NonPositiveLength)
-    }
-}
-
-/// A finite product, or [`Error::Overflow`].
-#[inline]
-fn fits<T: Real>(x: T) -> Result<T, Error> {
-    if x.is_finite() {
-        Ok(x)
-    } else {
-        Err(Error::Overflow)
     }
 }
 
