@@ -204,10 +204,5 @@ pub fn try_flight_time(
         return Err(Error::NonPositiveLength);
     }
     let b = try_beta(species, kinetic_energy_ev)?;
-    let t = length * <f32 as Real>::INV_SPEED_OF_LIGHT / b;
-    if t.is_finite() {
-        Ok(t)
-    } else {
-        Err(Error::Overflow)
-    }
+    crate::real::fits(length * <f32 as Real>::INV_SPEED_OF_LIGHT / b)
 }
