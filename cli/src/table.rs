@@ -73,7 +73,7 @@ fn row<T: Float>(text: &str) -> Result<Option<String>, String> {
         m.beta(),
         m.one_minus_beta(),
         m.beta_gamma(),
-        m.momentum() * T::from_f64(1.0e-6),
+        m.momentum_mev(),
         m.try_magnetic_rigidity().map_err(|e| e.to_string())?,
         m.try_electric_rigidity().map_err(|e| e.to_string())?,
         m.speed(),

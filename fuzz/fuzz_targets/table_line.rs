@@ -60,7 +60,7 @@ fn run<T: Real + FromStr + LowerExp>(text: &str) {
                 m.beta(),
                 m.one_minus_beta(),
                 m.beta_gamma(),
-                m.momentum() * T::from_f64(1.0e-6),
+                m.momentum_mev(),
                 m.speed(),
                 m.flight_time_per_metre() * T::from_f64(1.0e9),
             ];
