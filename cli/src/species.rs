@@ -9,7 +9,7 @@ use core::str::FromStr;
 use fourforce::{Real, Species};
 
 /// The named species, in the order `--help` lists them.
-#[allow(dead_code)] // the fuzz target of the table line and the tests check names against it
+#[allow(dead_code)] // only the fuzz target of the table line and the tests read it
 pub const NAMES: [&str; 10] = [
     "electron",
     "positron",
@@ -99,7 +99,7 @@ pub fn parse<T: Real + FromStr>(name: &str) -> Result<Species<T>, SpeciesError> 
 /// A value parser for a `--species NAME` option: accepts the name when it is good in both
 /// precisions (so that a bad name is a usage error, exit code 2, before any input is read) and
 /// returns it trimmed; the subcommand then calls [`parse`] in its precision.
-#[allow(dead_code)] // used by the subcommands that take `--species`
+#[allow(dead_code)] // unused where the fuzz target of the table line includes this file
 pub fn name_arg(text: &str) -> Result<String, String> {
     let name = text.trim();
     parse::<f64>(name).map_err(|e| e.to_string())?;
