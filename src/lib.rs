@@ -5,8 +5,8 @@
 //! time, the angle a corrector gives) without losing precision in `f32` at low energy or near the
 //! speed of light; it carries four-vectors and the electromagnetic field tensor, the four-force
 //! `K^μ = q F^μ_ν u^ν`, Lorentz boosts of vectors and fields, three published relativistic
-//! pushers, a fixed-capacity beam-line model, the steering of a whole line and on-device
-//! plausibility checks.
+//! pushers, first-order transfer maps, a fixed-capacity beam-line model, the steering of a whole
+//! line, on-device plausibility checks and energy witnesses.
 //!
 //! # Conventions
 //! - Metric signature (+,−,−,−), `x⁰ = ct`; four-velocity in units of c, `u = γ(1, β)`.
