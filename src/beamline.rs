@@ -1,8 +1,9 @@
 //! A fixed-capacity beam line and the transport of one particle through it, element by element.
 //!
 //! A [`BeamLine<T, N>`] holds up to `N` [`Element`]s in a `heapless::Vec` (no heap): drifts,
-//! thin magnetic kicks (correctors), hard-edge dipoles, accelerating gaps and thin electrostatic
-//! kicks. A [`BeamState`] is one particle on the line: its offsets `x`, `y` (m) and slopes
+//! thin magnetic kicks (correctors), hard-edge dipoles, accelerating gaps, thin electrostatic
+//! kicks, and the elements of linear optics (quadrupoles, sector dipoles, solenoids, monitors).
+//! A [`BeamState`] is one particle on the line: its offsets `x`, `y` (m) and slopes
 //! `x' = dx/ds`, `y' = dy/ds` (rad, small) from the line's straight axis `s`, its state of motion
 //! ([`Motion`]), its kinetic energy and its time of arrival.
 //!
