@@ -21,7 +21,7 @@
 //! `F_μν F^μν = 2(B² − E²/c²)` ([`FieldTensor::scalar_invariant`]) and `E·B`
 //! ([`FieldTensor::pseudoscalar_invariant`]); both are summed with exact products, and the
 //! `*_of` forms take E and B in SI with c in two exact parts, which keeps the near-null case
-//! (|E| ≈ c|B|) exact to about 1 eps in `f32` where the plain formula is off by 4 %.
+//! (|E| ≈ c|B|) within 1.5 eps where the plain `f32` formula is off by 4 %.
 //!
 //! It is the crate's one field type: the pushers read a `FieldTensor` from their
 //! [`FieldSource`](crate::push::FieldSource), and a `FieldTensor` is itself a uniform source.

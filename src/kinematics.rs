@@ -12,7 +12,7 @@
 //! species is in units of `e`; rigidities use `|Q|` and are positive.
 //!
 //! # Precision
-//! The formulas are those of the design notes (`γ − 1 = T/m`, `pc = √(T(T + 2m))`,
+//! Every formula adds positive terms only (`γ − 1 = T/m`, `pc = √(T(T + 2m))`,
 //! `1 − β = (m/E)(m/(E + pc))`, ...), never `γ − 1` from a stored `γ` nor `1 − β` by
 //! subtraction. A speed in m/s is compared with `c` held as the exact two-part sum
 //! `C_HI + C_LO` (`c` itself is 10 m/s off in `f32`), and a flight time uses an exact product
