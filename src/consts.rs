@@ -21,28 +21,90 @@
 //! ```
 
 /// Speed of light in vacuum `c` in m/s; exact (SI 2019).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::SPEED_OF_LIGHT, 299_792_458.0);
+/// ```
 pub const SPEED_OF_LIGHT: f64 = 299_792_458.0;
 /// Elementary charge `e` in C; exact (SI 2019).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::ELEMENTARY_CHARGE, 1.602_176_634e-19);
+/// ```
 pub const ELEMENTARY_CHARGE: f64 = 1.602_176_634e-19;
 /// Electron rest energy `mₑc²` in eV (CODATA 2018: 0.510 998 950 00 MeV).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::ELECTRON_REST_ENERGY, 0.510_998_950_00e6);
+/// ```
 pub const ELECTRON_REST_ENERGY: f64 = 510_998.95;
 /// Proton rest energy `mₚc²` in eV (CODATA 2018: 938.272 088 16 MeV).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::PROTON_REST_ENERGY, 938.272_088_16e6);
+/// ```
 pub const PROTON_REST_ENERGY: f64 = 938_272_088.16;
 /// Neutron rest energy `mₙc²` in eV (CODATA 2018: 939.565 420 52 MeV).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::NEUTRON_REST_ENERGY, 939.565_420_52e6);
+/// ```
 pub const NEUTRON_REST_ENERGY: f64 = 939_565_420.52;
 /// Muon rest energy `m_μc²` in eV (CODATA 2018: 105.658 3755 MeV).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::MUON_REST_ENERGY, 105.658_375_5e6);
+/// ```
 pub const MUON_REST_ENERGY: f64 = 105_658_375.5;
 /// Deuteron rest energy `m_dc²` in eV (CODATA 2018: 1875.612 942 57 MeV).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::DEUTERON_REST_ENERGY, 1875.612_942_57e6);
+/// ```
 pub const DEUTERON_REST_ENERGY: f64 = 1_875_612_942.57;
 /// Triton rest energy `m_tc²` in eV (CODATA 2018: 2808.921 132 98 MeV).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::TRITON_REST_ENERGY, 2808.921_132_98e6);
+/// ```
 pub const TRITON_REST_ENERGY: f64 = 2_808_921_132.98;
 /// Helion (³He nucleus) rest energy `m_hc²` in eV (CODATA 2018: 2808.391 607 43 MeV).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::HELION_REST_ENERGY, 2808.391_607_43e6);
+/// ```
 pub const HELION_REST_ENERGY: f64 = 2_808_391_607.43;
 /// Alpha-particle rest energy `m_αc²` in eV (CODATA 2018: 3727.379 4066 MeV).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::ALPHA_REST_ENERGY, 3727.379_406_6e6);
+/// ```
 pub const ALPHA_REST_ENERGY: f64 = 3_727_379_406.6;
 /// Atomic mass constant energy equivalent `m_u c²` in eV (CODATA 2018: 931.494 102 42 MeV).
+///
+/// # Examples
+/// ```
+/// assert_eq!(fourforce::consts::ATOMIC_MASS_UNIT_ENERGY, 931.494_102_42e6);
+/// ```
 pub const ATOMIC_MASS_UNIT_ENERGY: f64 = 931_494_102.42;
 /// Electron relative atomic mass `A_r(e)` in u (CODATA 2018: 5.485 799 090 65 × 10⁻⁴).
+///
+/// # Examples
+/// ```
+/// use fourforce::consts::{ATOMIC_MASS_UNIT_ENERGY, ELECTRON_REST_ENERGY, ELECTRON_RELATIVE_MASS};
+/// // A_r(e) m_u c^2 is the electron's rest energy to the printed digits (CODATA 2018).
+/// assert!((ELECTRON_RELATIVE_MASS * ATOMIC_MASS_UNIT_ENERGY / ELECTRON_REST_ENERGY - 1.0).abs() < 1e-12);
+/// ```
 pub const ELECTRON_RELATIVE_MASS: f64 = 5.485_799_090_65e-4;
 
 /// Speed of light split into two parts exactly representable in `f32`, `c = C_F32_HI + C_F32_LO`.
@@ -57,4 +119,10 @@ pub const ELECTRON_RELATIVE_MASS: f64 = 5.485_799_090_65e-4;
 /// ```
 pub const C_F32_HI: f32 = 299_792_448.0;
 /// The low part of `c` for `f32`: `c - C_F32_HI = 10` m/s, exact.
+///
+/// # Examples
+/// ```
+/// use fourforce::consts::{C_F32_HI, C_F32_LO, SPEED_OF_LIGHT};
+/// assert_eq!((SPEED_OF_LIGHT - f64::from(C_F32_HI)) as f32, C_F32_LO);
+/// ```
 pub const C_F32_LO: f32 = 10.0;

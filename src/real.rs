@@ -31,11 +31,23 @@ mod private {
 }
 
 /// `defmt::Format` when the `defmt` feature is on, nothing otherwise.
+///
+/// # Examples
+/// ```
+/// fn log<T: fourforce::MaybeFormat>(_: &T) {}
+/// log(&fourforce::Species::<f32>::PROTON); // every public type qualifies
+/// ```
 #[cfg(feature = "defmt")]
 pub trait MaybeFormat: defmt::Format {}
 #[cfg(feature = "defmt")]
 impl<T: defmt::Format> MaybeFormat for T {}
 /// `defmt::Format` when the `defmt` feature is on, nothing otherwise.
+///
+/// # Examples
+/// ```
+/// fn log<T: fourforce::MaybeFormat>(_: &T) {}
+/// log(&fourforce::Species::<f32>::PROTON); // every public type qualifies
+/// ```
 #[cfg(not(feature = "defmt"))]
 pub trait MaybeFormat {}
 #[cfg(not(feature = "defmt"))]
