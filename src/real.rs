@@ -56,8 +56,9 @@ impl<T> MaybeFormat for T {}
 /// A floating-point scalar: `f32` or `f64`, nothing else (the trait is sealed).
 ///
 /// Constants are the values of [`consts`](crate::consts) rounded once to `Self`. Functions are
-/// `libm`'s; their accuracy is `libm`'s (correctly rounded for `sqrt`, within about 1 ulp for the
-/// others).
+/// `libm`'s, with `libm`'s accuracy (correctly rounded for `sqrt`, within about 1 ulp for the
+/// others), except the `f32` [`sin_cos`](Real::sin_cos) (the crate's own, see there) and the
+/// `f32` `sqrt` on hard-float Arm (the FPU's `vsqrt.f32`, also correctly rounded).
 ///
 /// # Examples
 /// ```
@@ -174,6 +175,16 @@ pub trait Real:
     /// `(NaN, NaN)` beyond, where the reduction would lose the phase; libm's `sinf`/`cosf`
     /// compute in `f64`, which a single-precision FPU emulates in software. In `f64`, libm's
     /// `sin` and `cos`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// // sin 0.5 = 0.479425538604203, cos 0.5 = 0.8775825618903728 (Python's math module, f64)
+    /// let (s, c) = Real::sin_cos(0.5_f32);
+    /// assert!((f64::from(s) / 0.479_425_538_604_203 - 1.0).abs() <= 2.0 * f64::from(f32::EPSILON));
+    /// assert!((f64::from(c) / 0.877_582_561_890_372_8 - 1.0).abs() <= 2.0 * f64::from(f32::EPSILON));
+    /// assert!(Real::sin_cos(1.0e4_f32).0.is_nan()); // beyond 8192 rad
+    /// ```
     fn sin_cos(self) -> (Self, Self);
     /// Arcsine, in radians.
     fn asin(self) -> Self;
