@@ -67,18 +67,6 @@
 use crate::real::fits;
 use crate::{Error, Motion, Real, try_finite};
 
-/// Bρ of the reference, in T m.
-#[inline]
-fn magnetic_rigidity<T: Real>(motion: &Motion<T>) -> Result<T, Error> {
-    motion.try_magnetic_rigidity()
-}
-
-/// Eρ of the reference, in V.
-#[inline]
-fn electric_rigidity<T: Real>(motion: &Motion<T>) -> Result<T, Error> {
-    motion.try_electric_rigidity()
-}
-
 /// `+1` or `−1`, the sign of the charge.
 #[inline]
 fn charge_sign<T: Real>(motion: &Motion<T>) -> T {
@@ -110,8 +98,8 @@ impl<T: Real> Reference<T> {
         let gamma = motion.gamma();
         Self {
             sign: charge_sign(motion),
-            brho: magnetic_rigidity(motion),
-            erho: electric_rigidity(motion),
+            brho: motion.try_magnetic_rigidity(),
+            erho: motion.try_electric_rigidity(),
             per_metre,
             gamma,
             time_per_metre: -(per_metre / gamma) / gamma,
@@ -674,7 +662,7 @@ impl<T: Real> TransferMap<T> {
         }
         let slope = fits(motion.momentum() / after.momentum())?;
         // v p = Eρ |Q|: the ratio of the electric rigidities, each free of cancellation
-        let delta = fits(electric_rigidity(motion)? / electric_rigidity(&after)?)?;
+        let delta = fits(motion.try_electric_rigidity()? / after.try_electric_rigidity()?)?;
         Ok((slope, delta, after))
     }
 
