@@ -62,6 +62,7 @@
 //! ```
 
 use crate::compensated::two_sum;
+use crate::real::fits;
 use crate::transfer::{Envelope, Reference, TransferMap};
 use crate::{Error, Motion, Real, optics, try_finite};
 
@@ -348,8 +349,7 @@ impl<T: Real> Element<T> {
                 if integrated_field_v != T::ZERO {
                     let erho = state.motion.try_electric_rigidity()?;
                     let sign = T::ONE.copysign(state.motion.species().charge());
-                    let theta = try_finite(sign * integrated_field_v / erho)
-                        .map_err(|_| Error::Overflow)?;
+                    let theta = fits(sign * integrated_field_v / erho)?;
                     next.kick(theta, direction);
                 }
             }

@@ -29,6 +29,7 @@
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
+use crate::real::fits;
 use crate::{Error, Motion, Real, Species, try_finite};
 
 /// The outcome of a plausibility check.
@@ -599,7 +600,7 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             Err(Error::Empty)
         } else {
             // Readings near the largest float can overflow the running sums.
-            try_finite(self.mean).map_err(|_| Error::Overflow)
+            fits(self.mean)
         }
     }
 
@@ -624,8 +625,8 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             n => {
                 let dof = T::from_u32(u32::try_from(n - 1).unwrap_or(u32::MAX));
                 // (`max` would turn a NaN M₂ into 0: check it first.)
-                let m2 = try_finite(self.m2).map_err(|_| Error::Overflow)?;
-                try_finite((m2.max(T::ZERO) / dof).sqrt()).map_err(|_| Error::Overflow)
+                let m2 = fits(self.m2)?;
+                fits((m2.max(T::ZERO) / dof).sqrt())
             }
         }
     }
@@ -658,7 +659,7 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             sxy += di * (x - self.mean);
             sxx += di * di;
         }
-        try_finite(sxy / sxx).map_err(|_| Error::Overflow)
+        fits(sxy / sxx)
     }
 
     /// The fitted change across the window, `slope · (n - 1)`, in the reading's unit.
@@ -677,7 +678,7 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
     /// ```
     pub fn try_drift(&self) -> Result<T, Error> {
         let span = T::from_u32(u32::try_from(self.len.saturating_sub(1)).unwrap_or(u32::MAX));
-        try_finite(self.try_slope()? * span).map_err(|_| Error::Overflow)
+        fits(self.try_slope()? * span)
     }
 
     /// [`Trend::Rising`] or [`Trend::Falling`] when the drift across the window exceeds

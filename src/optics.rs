@@ -56,6 +56,7 @@
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
+use crate::real::fits;
 use crate::{Error, Motion, Real, Species, try_finite};
 
 /// `c²/(2π)` in Hz eV per (T e): the revolution frequency factor, mpmath 50 digits from exact c.
@@ -106,7 +107,7 @@ fn charge_sign<T: Real>(motion: &Motion<T>) -> T {
 pub fn try_bending_radius<T: Real>(motion: &Motion<T>, field_t: T) -> Result<T, Error> {
     let b = nonzero_field(field_t)?;
     let brho = motion.try_magnetic_rigidity()?;
-    try_finite(brho / b).map_err(|_| Error::Overflow)
+    fits(brho / b)
 }
 
 /// Bending radius in a transverse electric field: `ρ = Eρ/|E|` in m.
@@ -130,7 +131,7 @@ pub fn try_electric_bending_radius<T: Real>(
 ) -> Result<T, Error> {
     let e = nonzero_field(field_v_per_m)?;
     let erho = motion.try_electric_rigidity()?;
-    try_finite(erho / e).map_err(|_| Error::Overflow)
+    fits(erho / e)
 }
 
 /// Revolution (cyclotron) frequency in a magnetic field, `f = |Q| c² |B| / (2π E)` in Hz.
@@ -157,7 +158,7 @@ pub fn try_revolution_frequency<T: Real>(motion: &Motion<T>, field_t: T) -> Resu
         return Err(Error::ZeroCharge);
     }
     let per_tesla = (T::from_f64(C2_OVER_TWO_PI) / motion.total_energy()) * q;
-    try_finite(per_tesla * b).map_err(|_| Error::Overflow)
+    fits(per_tesla * b)
 }
 
 /// How long the particle trails a light signal over `length_m`: `L (1 − β)/(β c)` in s.
@@ -180,7 +181,7 @@ pub fn try_revolution_frequency<T: Real>(motion: &Motion<T>, field_t: T) -> Resu
 pub fn try_lag_behind_light<T: Real>(motion: &Motion<T>, length_m: T) -> Result<T, Error> {
     let l = positive_length(length_m)?;
     let x = motion.one_minus_beta() / motion.beta();
-    try_finite(l * x * T::INV_SPEED_OF_LIGHT).map_err(|_| Error::Overflow)
+    fits(l * x * T::INV_SPEED_OF_LIGHT)
 }
 
 /// Difference of the flight times of two states over the same length, `t_a − t_b` in s.
@@ -212,7 +213,7 @@ pub fn try_flight_time_difference<T: Real>(
     let l = positive_length(length_m)?;
     let xa = a.one_minus_beta() / a.beta();
     let xb = b.one_minus_beta() / b.beta();
-    try_finite(l * (xa - xb) * T::INV_SPEED_OF_LIGHT).map_err(|_| Error::Overflow)
+    fits(l * (xa - xb) * T::INV_SPEED_OF_LIGHT)
 }
 
 /// Kinetic energy a voltage `V` gives a particle of charge `Q`: `ΔT = Q V` in eV.
@@ -236,7 +237,7 @@ pub fn try_flight_time_difference<T: Real>(
 /// ```
 pub fn try_energy_gain<T: Real>(species: Species<T>, voltage_v: T) -> Result<T, Error> {
     let v = try_finite(voltage_v)?;
-    try_finite(species.charge() * v).map_err(|_| Error::Overflow)
+    fits(species.charge() * v)
 }
 
 /// The state after a voltage `V`: `T' = T + Q V` ([`try_energy_gain`]).
@@ -280,7 +281,7 @@ pub fn try_after_voltage<T: Real>(motion: &Motion<T>, voltage_v: T) -> Result<Mo
 pub fn try_kick_angle<T: Real>(motion: &Motion<T>, integrated_field_tm: T) -> Result<T, Error> {
     let bl = try_finite(integrated_field_tm)?;
     let brho = motion.try_magnetic_rigidity()?;
-    try_finite(charge_sign(motion) * bl / brho).map_err(|_| Error::Overflow)
+    fits(charge_sign(motion) * bl / brho)
 }
 
 /// Deflection by a hard-edge dipole of field `B` and length `L`: `sin θ = ±L B / Bρ` in rad.
@@ -338,7 +339,7 @@ pub fn try_integrated_field_for_angle<T: Real>(
 ) -> Result<T, Error> {
     let theta = try_finite(angle_rad)?;
     let brho = motion.try_magnetic_rigidity()?;
-    try_finite(charge_sign(motion) * theta * brho).map_err(|_| Error::Overflow)
+    fits(charge_sign(motion) * theta * brho)
 }
 
 /// Field a hard-edge dipole of length `L` needs for a wanted bend: `B = ±Bρ sin θ / L` in T.
@@ -366,7 +367,7 @@ pub fn try_field_for_angle_hard_edge<T: Real>(
         return Err(Error::AngleOutOfRange);
     }
     let brho = motion.try_magnetic_rigidity()?;
-    try_finite(charge_sign(motion) * brho * theta.sin() / l).map_err(|_| Error::Overflow)
+    fits(charge_sign(motion) * brho * theta.sin() / l)
 }
 
 /// Deflection of a thin electrostatic deflector, small-angle form: `θ = ±E L / Eρ` in rad.
@@ -392,7 +393,7 @@ pub fn try_electrostatic_kick_angle<T: Real>(
     let e = try_finite(field_v_per_m)?;
     let l = positive_length(length_m)?;
     let erho = motion.try_electric_rigidity()?;
-    try_finite(charge_sign(motion) * e * l / erho).map_err(|_| Error::Overflow)
+    fits(charge_sign(motion) * e * l / erho)
 }
 
 /// Field a thin electrostatic deflector of length `L` needs for a wanted angle:
@@ -418,7 +419,7 @@ pub fn try_deflector_field_for_angle<T: Real>(
     let theta = try_finite(angle_rad)?;
     let l = positive_length(length_m)?;
     let erho = motion.try_electric_rigidity()?;
-    try_finite(charge_sign(motion) * theta * erho / l).map_err(|_| Error::Overflow)
+    fits(charge_sign(motion) * theta * erho / l)
 }
 
 /// The state of a particle that a hard-edge dipole of length `L` at field `B` bends by `θ`:
