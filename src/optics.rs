@@ -84,9 +84,10 @@ fn positive_length<T: Real>(length: T) -> Result<T, Error> {
     }
 }
 
-/// +1 or −1 with the sign of the charge (a zero charge has been refused before).
+/// +1 or −1 with the sign of the charge (for a zero charge, which every deflection refuses, its
+/// sign bit).
 #[inline]
-fn charge_sign<T: Real>(motion: &Motion<T>) -> T {
+pub(crate) fn charge_sign<T: Real>(motion: &Motion<T>) -> T {
     T::ONE.copysign(motion.species().charge())
 }
 

@@ -64,14 +64,9 @@
 //! # Ok::<(), fourforce::Error>(())
 //! ```
 
+use crate::optics::charge_sign;
 use crate::real::fits;
 use crate::{Error, Motion, Real, try_finite};
-
-/// `+1` or `−1`, the sign of the charge.
-#[inline]
-fn charge_sign<T: Real>(motion: &Motion<T>) -> T {
-    T::ONE.copysign(motion.species().charge())
-}
 
 /// The numbers of the reference that the elements' maps need, computed once per energy (a line
 /// computes them at its start and after each gap, not once per element).
