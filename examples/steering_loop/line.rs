@@ -216,7 +216,7 @@ pub fn try_free_orbit<T: Real>(
 
 /// Every corrector's calibration (invented): ∫B dl in T m against the supply current in A,
 /// straight to 8 A, saturating beyond.
-pub fn calibration<T: Real>() -> Result<Calibration<T, 7>, Error> {
+pub fn try_calibration<T: Real>() -> Result<Calibration<T, 7>, Error> {
     // (element by element: each conversion folds at compile time, no software double on a chip)
     let f = T::from_f64;
     let a = [f(-10.0), f(-8.0), f(-4.0), f(0.0), f(4.0), f(8.0), f(10.0)];
@@ -238,7 +238,7 @@ pub fn calibration<T: Real>() -> Result<Calibration<T, 7>, Error> {
 /// corrector each: without it the solution follows the weak modes), cutoff 0.01; the response
 /// at the nominal energy from the line's maps.
 pub fn try_setup<T: Real>(orbit: &mut Orbit<T, MONITORS, CORRECTORS>) -> Result<(), Error> {
-    let (lo, hi) = calibration::<T>()?.setting_range();
+    let (lo, hi) = try_calibration::<T>()?.setting_range();
     let step = T::from_f64(0.25e-3);
     let mut correctors = [Corrector::try_new(lo, hi, step)?; CORRECTORS];
     correctors[0] = Corrector::try_new(lo * T::HALF, hi * T::HALF, step)?;

@@ -86,7 +86,7 @@ fn run() -> Result<ExitCode, Error> {
     let mut orbit = Orbit::new();
     line::try_setup::<f32>(&mut orbit)?;
     let mut machine = line::Machine::try_new()?;
-    let cal = line::calibration::<f32>()?;
+    let cal = line::try_calibration::<f32>()?;
     let mut records: Vec<Record<f32>> = Vec::new();
     let mut failures: Vec<String> = Vec::new();
     let mut faults_caught = 0;
