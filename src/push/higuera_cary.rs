@@ -30,7 +30,7 @@ use crate::{FieldTensor, Real, ThreeVector};
 /// ```
 /// use fourforce::{FieldTensor, Species, ThreeVector};
 /// use fourforce::push::{HigueraCary, Particle, Pusher};
-/// // A proton at the E × B velocity of E = 0.6 cB keeps its momentum.
+/// // A proton at the E × B velocity of E = 0.6 cB keeps its γβ.
 /// let fields = FieldTensor::try_from_fields(
 ///     ThreeVector::new(0.0, 0.6 * 299_792_458.0, 0.0),
 ///     ThreeVector::new(0.0, 0.0, 1.0_f64),

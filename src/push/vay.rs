@@ -39,7 +39,7 @@ use crate::{FieldTensor, Real, ThreeVector};
 /// ```
 /// use fourforce::{FieldTensor, Species, ThreeVector};
 /// use fourforce::push::{Particle, Pusher, Vay};
-/// // A proton moving at exactly the E × B velocity keeps its momentum (Vay 2008).
+/// // A proton moving at exactly the E × B velocity keeps its γβ (Vay 2008).
 /// let beta = 0.6_f64;
 /// let fields = FieldTensor::try_from_fields(
 ///     ThreeVector::new(0.0, beta * 299_792_458.0, 0.0), // E = βcB along y (V/m)
