@@ -149,6 +149,7 @@ impl<T: Real> Hand<T> {
             let (s, e) = two_sum(p.u_lo[i], du[i]);
             let (hi, e1) = two_sum(p.u[i], s);
             let (c, l) = two_sum(e1, e + p.u_lo2[i]);
+            let (hi, c) = two_sum(hi, c);
             p.u[i] = hi;
             p.u_lo[i] = c;
             p.u_lo2[i] = l;

@@ -449,7 +449,9 @@ fn compensated_add<T: Real>(
 /// `u + (change + carry + low)` componentwise, with two levels of carry: `change` is first added
 /// to the carry exactly (two-sum), the sum to `u` (two-sum), and the two errors are summed into
 /// the new carry and its low part (two-sum), so that only `e + low`, far below the carry, rounds.
-/// Returns the new `u`, carry and low part.
+/// A last two-sum of the new `u` and its carry keeps `u` the rounded value of the sum even when
+/// the change cancels most of `u` (a beam braked by a strong field): without it the carry of the
+/// large old `u` could exceed an ulp of the small new one. Returns the new `u`, carry and low part.
 #[inline(always)]
 fn compensated_add2<T: Real>(
     u: ThreeVector<T>,
@@ -461,6 +463,7 @@ fn compensated_add2<T: Real>(
         let (s, e) = two_sum_unguarded(c, b);
         let (hi, e1) = two_sum_unguarded(u, s);
         let (c_new, l_new) = two_sum_unguarded(e1, e + l);
+        let (hi, c_new) = two_sum_unguarded(hi, c_new);
         (hi, c_new, l_new)
     };
     let (x, cx, lx) = one(u.x, change.x, carry.x, low.x);
