@@ -90,84 +90,307 @@ pub trait Real:
     + 'static
 {
     /// 0.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::ZERO, 0.0);
+    /// ```
     const ZERO: Self;
     /// 1.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::ONE, 1.0);
+    /// ```
     const ONE: Self;
     /// 2.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f64 as Real>::TWO, 2.0);
+    /// ```
     const TWO: Self;
     /// 1/2.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f64 as Real>::HALF, 0.5);
+    /// ```
     const HALF: Self;
     /// -1.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::NEG_ONE, -1.0);
+    /// ```
     const NEG_ONE: Self;
     /// π.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::PI, core::f32::consts::PI);
+    /// ```
     const PI: Self;
     /// Machine epsilon, `2⁻²³` for `f32` and `2⁻⁵²` for `f64`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::EPSILON, 2.0_f32.powi(-23));
+    /// ```
     const EPSILON: Self;
     /// The largest finite value.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f64 as Real>::MAX, f64::MAX);
+    /// ```
     const MAX: Self;
     /// The smallest positive normal value.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::MIN_POSITIVE, 2.0_f32.powi(-126));
+    /// ```
     const MIN_POSITIVE: Self;
     /// Positive infinity.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert!(!Real::is_finite(<f32 as Real>::INFINITY));
+    /// ```
     const INFINITY: Self;
     /// Number of significand bits, including the implicit one (24 or 53).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!((<f32 as Real>::MANTISSA_DIGITS, <f64 as Real>::MANTISSA_DIGITS), (24, 53));
+    /// ```
     const MANTISSA_DIGITS: u32;
 
     /// Speed of light `c` in m/s, rounded to `Self` (299 792 448 in `f32`).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::SPEED_OF_LIGHT, 299_792_448.0);
+    /// ```
     const SPEED_OF_LIGHT: Self;
     /// High part of `c` in m/s: `c = C_HI + C_LO` exactly (`C_LO = 0` in `f64`).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(f64::from(<f32 as Real>::C_HI) + f64::from(<f32 as Real>::C_LO), 299_792_458.0);
+    /// ```
     const C_HI: Self;
     /// Low part of `c` in m/s: 10 in `f32`, 0 in `f64`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!((<f32 as Real>::C_LO, <f64 as Real>::C_LO), (10.0, 0.0));
+    /// ```
     const C_LO: Self;
     /// `1/c` in s/m, correctly rounded to `Self`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f64 as Real>::INV_SPEED_OF_LIGHT, 1.0 / 299_792_458.0);
+    /// ```
     const INV_SPEED_OF_LIGHT: Self;
     /// Elementary charge `e` in C.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f64 as Real>::ELEMENTARY_CHARGE, fourforce::consts::ELEMENTARY_CHARGE);
+    /// ```
     const ELEMENTARY_CHARGE: Self;
     /// Electron rest energy in eV (CODATA 2018).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::ELECTRON_REST_ENERGY, fourforce::consts::ELECTRON_REST_ENERGY as f32);
+    /// ```
     const ELECTRON_REST_ENERGY: Self;
     /// Proton rest energy in eV (CODATA 2018).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::PROTON_REST_ENERGY, fourforce::consts::PROTON_REST_ENERGY as f32);
+    /// ```
     const PROTON_REST_ENERGY: Self;
     /// Neutron rest energy in eV (CODATA 2018).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::NEUTRON_REST_ENERGY, fourforce::consts::NEUTRON_REST_ENERGY as f32);
+    /// ```
     const NEUTRON_REST_ENERGY: Self;
     /// Muon rest energy in eV (CODATA 2018).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::MUON_REST_ENERGY, fourforce::consts::MUON_REST_ENERGY as f32);
+    /// ```
     const MUON_REST_ENERGY: Self;
     /// Deuteron rest energy in eV (CODATA 2018).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::DEUTERON_REST_ENERGY, fourforce::consts::DEUTERON_REST_ENERGY as f32);
+    /// ```
     const DEUTERON_REST_ENERGY: Self;
     /// Triton rest energy in eV (CODATA 2018).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::TRITON_REST_ENERGY, fourforce::consts::TRITON_REST_ENERGY as f32);
+    /// ```
     const TRITON_REST_ENERGY: Self;
     /// Helion rest energy in eV (CODATA 2018).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::HELION_REST_ENERGY, fourforce::consts::HELION_REST_ENERGY as f32);
+    /// ```
     const HELION_REST_ENERGY: Self;
     /// Alpha-particle rest energy in eV (CODATA 2018).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::ALPHA_REST_ENERGY, fourforce::consts::ALPHA_REST_ENERGY as f32);
+    /// ```
     const ALPHA_REST_ENERGY: Self;
     /// Atomic mass constant energy equivalent in eV (CODATA 2018).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f64 as Real>::ATOMIC_MASS_UNIT_ENERGY, fourforce::consts::ATOMIC_MASS_UNIT_ENERGY);
+    /// ```
     const ATOMIC_MASS_UNIT_ENERGY: Self;
     /// Electron mass in atomic mass units (CODATA 2018).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f64 as Real>::ELECTRON_RELATIVE_MASS, fourforce::consts::ELECTRON_RELATIVE_MASS);
+    /// ```
     const ELECTRON_RELATIVE_MASS: Self;
 
     /// Rounds an `f64` to `Self`; meant for literals and constants, which fold at compile time.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::from_f64(0.1), 0.1_f32);
+    /// ```
     fn from_f64(x: f64) -> Self;
     /// Widens (or keeps) to `f64`; for host-side comparisons, not for the `f32` hot path.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::to_f64(0.5_f32), 0.5_f64);
+    /// ```
     fn to_f64(self) -> f64;
     /// Converts a step count or other integer exactly where it fits in the significand.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::from_u32(16_777_216), 16_777_216.0);
+    /// ```
     fn from_u32(n: u32) -> Self;
     /// Converts a signed integer, rounding where it does not fit in the significand.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f64 as Real>::from_i32(-3), -3.0);
+    /// ```
     fn from_i32(n: i32) -> Self;
     /// Square root, correctly rounded; NaN below zero.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::sqrt(2.25_f32), 1.5);
+    /// assert!(Real::sqrt(-1.0_f32).is_nan());
+    /// ```
     fn sqrt(self) -> Self;
     /// `sqrt(self² + other²)` without undue overflow or underflow.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::hypot(3.0e30_f32, 4.0e30), 5.0e30);
+    /// ```
     fn hypot(self, other: Self) -> Self;
     /// Absolute value.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::abs(-2.5_f32), 2.5);
+    /// ```
     fn abs(self) -> Self;
     /// Fused multiply-add `self * a + b` with one rounding.
     ///
     /// Through `libm::fmaf`/`fma`: on a Cortex-M, `fmaf` computes in software `f64`, which pulls
     /// soft-double code into an `f32` image. The crate itself never calls it on an `f32` path
     /// (exact products use Dekker's splitting instead; see the firmware check).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::mul_add(2.0_f64, 3.0, 1.0), 7.0);
+    /// ```
     fn mul_add(self, a: Self, b: Self) -> Self;
     /// Sine (radians).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::sin(0.0_f64), 0.0);
+    /// ```
     fn sin(self) -> Self;
     /// Cosine (radians).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::cos(0.0_f32), 1.0);
+    /// ```
     fn cos(self) -> Self;
     /// Tangent (radians).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert!((Real::tan(core::f64::consts::FRAC_PI_4) - 1.0).abs() < 1e-15);
+    /// ```
     fn tan(self) -> Self;
     /// Sine and cosine together (radians), in the working precision only: in `f32` a reduction
     /// by `π/2` held in three `f32` parts (Cody and Waite) and polynomials on `[−π/4, π/4]`
@@ -187,52 +410,190 @@ pub trait Real:
     /// ```
     fn sin_cos(self) -> (Self, Self);
     /// Arcsine, in radians.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::asin(1.0_f64), core::f64::consts::FRAC_PI_2);
+    /// ```
     fn asin(self) -> Self;
     /// Arccosine, in radians.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::acos(1.0_f32), 0.0);
+    /// ```
     fn acos(self) -> Self;
     /// Arctangent, in radians.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::atan(1.0_f64), core::f64::consts::FRAC_PI_4);
+    /// ```
     fn atan(self) -> Self;
     /// Four-quadrant arctangent of `self / x`, in radians.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::atan2(1.0_f64, -1.0), 3.0 * core::f64::consts::FRAC_PI_4);
+    /// ```
     fn atan2(self, x: Self) -> Self;
     /// Hyperbolic sine.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::sinh(0.0_f32), 0.0);
+    /// ```
     fn sinh(self) -> Self;
     /// Hyperbolic cosine.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::cosh(0.0_f32), 1.0);
+    /// ```
     fn cosh(self) -> Self;
     /// Hyperbolic tangent.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::tanh(f64::INFINITY), 1.0);
+    /// ```
     fn tanh(self) -> Self;
     /// Inverse hyperbolic tangent.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::atanh(0.0_f64), 0.0);
+    /// ```
     fn atanh(self) -> Self;
     /// `eˣ`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::exp(0.0_f32), 1.0);
+    /// ```
     fn exp(self) -> Self;
     /// `eˣ - 1`, accurate near 0.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::exp_m1(1.0e-20_f64), 1.0e-20);
+    /// ```
     fn exp_m1(self) -> Self;
     /// Natural logarithm.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::ln(1.0_f32), 0.0);
+    /// ```
     fn ln(self) -> Self;
     /// `ln(1 + x)`, accurate near 0.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::ln_1p(1.0e-20_f64), 1.0e-20);
+    /// ```
     fn ln_1p(self) -> Self;
     /// Round half away from zero.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!((Real::round(2.5_f32), Real::round(-2.5_f32)), (3.0, -3.0));
+    /// ```
     fn round(self) -> Self;
     /// Largest integer not above `self`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::floor(-0.5_f64), -1.0);
+    /// ```
     fn floor(self) -> Self;
     /// `|self|` with the sign of `sign`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::copysign(2.0_f32, -0.0), -2.0);
+    /// ```
     fn copysign(self, sign: Self) -> Self;
     /// True unless infinite or NaN.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert!(Real::is_finite(f32::MAX) && !Real::is_finite(f32::NAN));
+    /// ```
     fn is_finite(self) -> bool;
     /// True for NaN.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert!(Real::is_nan(f64::NAN) && !Real::is_nan(f64::INFINITY));
+    /// ```
     fn is_nan(self) -> bool;
     /// True when the sign bit is set (also for -0.0 and negative NaN).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert!(Real::is_sign_negative(-0.0_f32) && !Real::is_sign_negative(0.0_f32));
+    /// ```
     fn is_sign_negative(self) -> bool;
     /// The smaller of two values (the other if one is NaN).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::min(f32::NAN, 1.0), 1.0);
+    /// ```
     fn min(self, other: Self) -> Self;
     /// The larger of two values (the other if one is NaN).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::max(2.0_f64, f64::NAN), 2.0);
+    /// ```
     fn max(self, other: Self) -> Self;
     /// The raw bits, widened to `u64`.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::to_bits_u64(1.0_f32), 0x3f80_0000);
+    /// ```
     fn to_bits_u64(self) -> u64;
     /// The binary exponent `e` with `2^e ≤ |self| < 2^(e+1)` (`libm::ilogbf`/`ilogb`; subnormals
     /// included; `i32::MIN` for 0 and NaN, `i32::MAX` for the infinities).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!((Real::ilogb(8.0_f32), Real::ilogb(0.75_f64)), (3, -1));
+    /// ```
     fn ilogb(self) -> i32;
     /// `self · 2^n`, exact unless the result overflows or falls into the subnormals
     /// (`libm::scalbnf`/`scalbn`).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(Real::scalbn(1.5_f32, 4), 24.0);
+    /// ```
     fn scalbn(self, n: i32) -> Self;
 }
 
