@@ -64,6 +64,11 @@ impl<T: Real> FieldTensor<T> {
     #[must_use]
     #[inline]
     pub fn four_force(&self, charge: T, u: FourVector<T>) -> FourVector<T> {
+        if self.e().is_zero() {
+            // A magnetic field alone: K = Q(0, u × cB), the same products as the contraction
+            // without the electric terms (which are zero); 0·u⁰ keeps a non-finite u⁰ visible.
+            return FourVector::from_parts(T::ZERO * u.time, u.space.cross(self.c_b()) * charge);
+        }
         self.contract(u) * charge
     }
 

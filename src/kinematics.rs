@@ -369,19 +369,20 @@ impl<T: Real> Motion<T> {
         // d = 1 − β² = (1 − β)(1 + β): from the exact 1 − β once β ≥ 1/2, else 1 − β·β (no
         // cancellation there). s = √d = 1/γ, and γ − 1 = β²/(s(1 + s)) = β²/(s + d): sums of
         // positive terms only.
-        let d = if beta < T::HALF {
-            T::ONE - beta * beta
+        let bb = beta * beta;
+        if beta < T::HALF {
+            let d = T::ONE - bb;
+            let s = d.sqrt();
+            let g1 = bb / (s + d);
+            let gamma = T::ONE + g1;
+            Self::from_parts(species, g1, gamma, beta * gamma, beta, one_minus_beta)
         } else {
-            one_minus_beta * (T::ONE + beta)
-        };
-        let s = d.sqrt();
-        let g1 = beta * beta / (s + d);
-        let gamma = if beta < T::HALF {
-            T::ONE + g1
-        } else {
-            T::ONE / s
-        };
-        Self::from_parts(species, g1, gamma, beta * gamma, beta, one_minus_beta)
+            let d = one_minus_beta * (T::ONE + beta);
+            let s = d.sqrt();
+            let g1 = bb / (s + d);
+            let gamma = T::ONE / s;
+            Self::from_parts(species, g1, gamma, beta * gamma, beta, one_minus_beta)
+        }
     }
 
     /// The state from `γ − 1`, `γ`, `βγ`, `β` and `1 − β`, each already free of cancellation;
@@ -653,7 +654,8 @@ impl<T: Real> Motion<T> {
     ///
     /// # Errors
     /// [`Error::NonFinite`]; [`Error::NonPositiveLength`] for `L ≤ 0` or `t ≤ 0`;
-    /// [`Error::FasterThanLight`] for `c t ≤ L`.
+    /// [`Error::FasterThanLight`] for `c t ≤ L`; [`Error::Overflow`] for a time so long that `β`
+    /// underflows to 0 (or `c t` overflows).
     ///
     /// # Examples
     /// ```
@@ -683,19 +685,17 @@ impl<T: Real> Motion<T> {
         if excess <= T::ZERO {
             return Err(Error::FasterThanLight);
         }
-        let u = excess / l;
-        let one_plus_u = T::ONE + u;
-        if !one_plus_u.is_finite() {
-            return Err(Error::Overflow);
-        }
-        if u > T::ONE {
-            // Slower than c/2: β = L/(c t) straight from the exact product, two roundings.
+        if excess > l {
+            // u > 1, slower than c/2: β = L/(c t) straight from the exact product, two roundings
+            // (u itself is not needed; a time so long that β underflows is refused).
             let beta = l / (p + (e + t * T::C_LO));
             if beta == T::ZERO {
                 return Err(Error::Overflow);
             }
             return Self::from_beta_parts(species, beta, T::ONE - beta);
         }
+        let u = excess / l;
+        let one_plus_u = T::ONE + u;
         Self::from_beta_parts(species, T::ONE / one_plus_u, u / one_plus_u)
     }
 

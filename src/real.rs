@@ -599,12 +599,107 @@ pub trait Real:
 
 // The `f32` square root: the FPU's `vsqrt.f32` on hard-float Arm targets (through the crate
 // `fourforce-fpu`, which holds the one inline-assembly block so that this crate stays free of
-// `unsafe`), `libm::sqrtf` everywhere else. Both are correctly rounded, so the results are
-// bit-identical (checked on the emulated Cortex-M4F by the firmware example).
+// `unsafe`), the integer routine `sqrtf_integer` on the other Arm targets (software floats: libm's
+// `sqrtf` multiplies 64-bit integers there, about 580 instructions on a Cortex-M0 against about
+// 75), `libm::sqrtf` everywhere else. All three are correctly rounded, so the results are
+// bit-identical (checked on the emulated Cortex-M4F and Cortex-M0 by the firmware example, and
+// against libm on the host by the tests below).
 #[cfg(all(target_arch = "arm", target_abi = "eabihf"))]
 use fourforce_fpu::sqrtf;
-#[cfg(not(all(target_arch = "arm", target_abi = "eabihf")))]
+#[cfg(not(target_arch = "arm"))]
 use libm::sqrtf;
+#[cfg(all(target_arch = "arm", not(target_abi = "eabihf")))]
+use sqrtf_integer as sqrtf;
+
+/// First guesses of `1/√f` for `f = i/32`, `i = 32 .. 128` (`f` in [1, 4)), at the middle of each
+/// interval, in units of 2⁻¹⁵: `round(2¹⁵ / √((i + ½)/32)) = round(√(2³⁶ / (2i + 1)))`.
+// Evaluated at compile time: an index out of range would fail the build, never panic on a chip.
+#[allow(clippy::indexing_slicing)]
+const RSQRT_GUESS: [u16; 96] = {
+    let mut table = [0u16; 96];
+    let mut k = 0;
+    while k < 96 {
+        // ⌊√(2³⁸ / (2i + 1))⌋ by integer Newton from above, then halved with rounding.
+        let n = (1u64 << 38) / (2 * (k as u64 + 32) + 1);
+        let mut r = n;
+        let mut next = (r + n / r) / 2;
+        while next < r {
+            r = next;
+            next = (r + n / r) / 2;
+        }
+        table[k] = r.div_ceil(2) as u16;
+        k += 1;
+    }
+    table
+};
+
+/// `√x` in `f32`, correctly rounded (round to nearest, ties to even: bit-identical to libm's
+/// `sqrtf` on every input but the payload of a NaN), in 32-bit integer arithmetic only.
+///
+/// For chips without a floating-point unit, where every float operation is a software routine
+/// and libm's `sqrtf` multiplies 64-bit integers (a library call on a Cortex-M0). With the
+/// significand `a` in [2²⁴, 2²⁶) (the exponent made even), `q = ⌊√(a·2²⁴)⌋` has 25 bits and the
+/// result's significand is `(q + 1)/2` rounded down (a tie is impossible: `a·2²⁴` is even, never an
+/// odd square). `q` comes from a table of `1/√f` (7 bits), one Newton step for `1/√f` (14 bits),
+/// `h ≈ √f` from it, and one Newton step for `√f` whose residual `16a − h²` is exact in 32 bits;
+/// the last one or two units are settled by the exact remainder `a·2²⁴ − q²`, which is small
+/// enough to be computed modulo 2³².
+#[cfg_attr(
+    not(all(target_arch = "arm", not(target_abi = "eabihf"))),
+    allow(dead_code)
+)]
+fn sqrtf_integer(x: f32) -> f32 {
+    let bits = x.to_bits();
+    if bits.wrapping_sub(1) >= 0x7f7f_ffff {
+        // ±0, negative numbers, infinity and NaN (`bits − 1` wraps for +0).
+        return if bits & 0x7fff_ffff == 0 || bits == 0x7f80_0000 {
+            x
+        } else {
+            f32::NAN
+        };
+    }
+    // Positive, finite, non-zero: the significand m with its leading bit at 2²³, the exponent e.
+    let mut exponent = (bits >> 23) as i32;
+    let mut m = bits & 0x007f_ffff;
+    if exponent == 0 {
+        // Subnormal: normalise.
+        let shift = m.leading_zeros() - 8;
+        m <<= shift;
+        exponent = 1 - shift as i32;
+    } else {
+        m |= 0x0080_0000;
+    }
+    // x = m · 2^(exponent − 150); with e = exponent − 127 odd, a = 4m and e − 1; else a = 2m.
+    let e = exponent - 127;
+    let a = if e & 1 == 0 { m << 1 } else { m << 2 };
+    let half_e = e >> 1; // ⌊e/2⌋: the exponent of the result
+    // f = a / 2²⁴ in [1, 4); fq = f in units of 2⁻¹⁴ (a's low ten bits dropped).
+    let fq = a >> 10;
+    let index = ((fq >> 9) as usize).wrapping_sub(32);
+    let y0 = u32::from(RSQRT_GUESS.get(index).copied().unwrap_or(1 << 14));
+    // One Newton step for y ≈ 1/√f (units of 2⁻¹⁵): y ← y (3 − f y²) / 2.
+    let fy2 = fq * ((y0 * y0) >> 16); // f y² in units of 2⁻²⁸, near 2²⁸
+    let y1 = (y0 * (((3 << 28) - fy2) >> 14)) >> 15;
+    // h ≈ √f = f · (1/√f) in units of 2⁻¹⁴, then one Newton step for √f with the exact residual
+    // f − h² (units of 2⁻²⁸; |16a − h²| < 2¹⁹) and 1/(2h) from y: q ≈ √(a·2²⁴) = √f · 2²⁴.
+    let h = (fq * y1) >> 15;
+    let residual = (a << 4) as i32 - (h * h) as i32;
+    let correction = ((residual >> 4) * y1 as i32) >> 16;
+    let mut q = ((h << 10) as i32 + correction) as u32;
+    // The exact remainder a·2²⁴ − q² (|·| < 2²⁸, so modulo 2³² is exact), and the last units.
+    let mut remainder = (a << 24).wrapping_sub(q.wrapping_mul(q)) as i32;
+    while remainder < 0 {
+        q -= 1;
+        remainder += (2 * q + 1) as i32;
+    }
+    while remainder > (2 * q) as i32 {
+        remainder -= (2 * q + 1) as i32;
+        q += 1;
+    }
+    // Round: the significand (q + 1)/2 in [2²³, 2²⁴] (2²⁴ carries into the exponent).
+    let significand = (q + 1) >> 1;
+    f32::from_bits((((half_e + 126) as u32) << 23) + significand)
+}
 
 /// `(sin x, cos x)` in `f32` arithmetic only; see [`Real::sin_cos`].
 fn sin_cos_f32(x: f32) -> (f32, f32) {
@@ -927,6 +1022,43 @@ pub(crate) fn fits<T: Real>(x: T) -> Result<T, crate::Error> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The integer square root against libm's `sqrtf`, bit for bit. The routine depends on the
+    /// significand and the parity of the exponent only (the exponent itself is halved), so
+    /// [1, 4), two binades of every significand with both parities, covers every path of the
+    /// normal numbers exhaustively; every subnormal, every 97th bit pattern over the whole range
+    /// and the edges cover the rest.
+    #[test]
+    fn integer_sqrt_is_libms_bit_for_bit() {
+        let check = |bits: u32| {
+            let x = f32::from_bits(bits);
+            let (got, want) = (sqrtf_integer(x), libm::sqrtf(x));
+            assert!(
+                got.to_bits() == want.to_bits() || (got.is_nan() && want.is_nan()),
+                "sqrt({x:e}) = {got:e}, libm {want:e}"
+            );
+        };
+        for bits in 1.0_f32.to_bits()..4.0_f32.to_bits() {
+            check(bits);
+        }
+        for bits in 0..=0x0080_0000 {
+            check(bits);
+        }
+        for bits in (0..=u32::MAX).step_by(97) {
+            check(bits);
+        }
+        for x in [
+            0.0,
+            -0.0,
+            f32::MAX,
+            f32::INFINITY,
+            -1.0,
+            f32::NEG_INFINITY,
+            f32::NAN,
+        ] {
+            check(x.to_bits());
+        }
+    }
 
     /// The f32 sine and cosine against libm's f64 ones at the same (exact) argument: within 2 ulp
     /// of the result, plus the reduction's 2e-15 per multiple of π/2 near the zeros; NaN beyond

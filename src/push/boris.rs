@@ -18,7 +18,8 @@
 //! particle's `γ` when the half kick is perpendicular to `u`, so in crossed fields near `E = cB`
 //! at large steps the `E × B` drift comes out wrong (see [`Vay`](super::Vay)).
 //!
-//! Cost: 2 square roots (`γ⁻`, and `γⁿ⁺¹` for the drift), 3 divisions (with the drift's `1/γ`).
+//! Cost: 2 square roots (`γ⁻`, and `γⁿ⁺¹` for the drift), 3 divisions (with the drift's `1/γ`); in a
+//! magnetic field alone (`E = 0`: no half kicks, `γ⁻` is the given `γⁿ`) one root fewer.
 //! The change of `u` is returned as `2ε + u' × (s t)`, the kicks and the rotation themselves.
 
 use super::{Pusher, StepFactors};
@@ -59,18 +60,35 @@ impl<T: Real> Pusher<T> for Boris<T> {
     fn beta_gamma_change(
         &self,
         beta_gamma: ThreeVector<T>,
-        _gamma: T,
+        gamma: T,
         field: &FieldTensor<T>,
     ) -> ThreeVector<T> {
-        // ε = kick·E and τ = kick·cB: one factor for both halves of the field.
-        let eps = field.e() * self.factors.kick;
-        let tau = field.c_b() * self.factors.kick;
+        let kick = self.factors.kick;
+        if field.e().is_zero() {
+            // A magnetic field alone: no half kicks (ε = 0), so u⁻ = uⁿ and γ⁻ = γⁿ, the given
+            // one; the rotation is the whole change.
+            return rotation(beta_gamma, gamma, field.c_b(), kick);
+        }
+        // ε = kick·E; uⁿ⁺¹ − uⁿ = 2ε + (u⁺ − u⁻): the two half kicks and the rotation, never u
+        // minus u.
+        let eps = field.e() * kick;
         let u_minus = beta_gamma + eps;
         let gamma_minus = (T::ONE + u_minus.norm_squared()).sqrt();
-        let t = tau * (T::ONE / gamma_minus);
-        let s = T::TWO / (T::ONE + t.norm_squared());
-        let u_prime = u_minus + u_minus.cross(t);
-        // uⁿ⁺¹ − uⁿ = 2ε + (u⁺ − u⁻): the two half kicks and the rotation, never u minus u.
-        (eps + eps) + u_prime.cross(t * s)
+        (eps + eps) + rotation(u_minus, gamma_minus, field.c_b(), kick)
     }
+}
+
+/// The change `u⁺ − u⁻ = u' × (s t)` of the Boris rotation of `u⁻` (with its `γ⁻`) in the field
+/// `cB`: `t = τ/γ⁻ = cB · (kick/γ⁻)`, one division and three products.
+#[inline(always)]
+fn rotation<T: Real>(
+    u_minus: ThreeVector<T>,
+    gamma_minus: T,
+    c_b: ThreeVector<T>,
+    kick: T,
+) -> ThreeVector<T> {
+    let t = c_b * (kick / gamma_minus);
+    let s = T::TWO / (T::ONE + t.norm_squared());
+    let u_prime = u_minus + u_minus.cross(t);
+    u_prime.cross(t * s)
 }
