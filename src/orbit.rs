@@ -43,8 +43,9 @@
 //! Each corrector has a setting range `[min, max]` (saturation) and a largest change per
 //! iteration (rate). A corrector whose step would cross a limit is held at that limit, and the
 //! other correctors are solved again for the rest (the readings the held ones leave); this repeats
-//! until no free corrector crosses a limit (at most C times). The [`Outcome`] says which limits
-//! acted.
+//! until no free corrector crosses a limit (at most C times). End stops come first: while a
+//! corrector saturates, the others' steps belong to a solution that moves it out of range, so
+//! none of them is held at its rate in that pass. The [`Outcome`] says which limits acted.
 //!
 //! # Failed monitors
 //! A reading that is not finite, lies outside the monitor's range, or is stuck (exactly the same
@@ -1737,8 +1738,9 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     }
 
     /// For every corrector not yet held: its set point brought into range, plus its step, into
-    /// `next`; a step that would cross a limit is clipped to it (and reported). Returns the
-    /// correctors newly held. The common case, no limit near, costs an add and three compares.
+    /// `next`; a step that would cross a limit is clipped to it. Returns the correctors newly
+    /// held, and reports them: those that saturate if any does, else those rate-limited. The
+    /// common case, no limit near, costs an add and three compares.
     fn limit(
         &self,
         settings: &[T; C],
@@ -1748,7 +1750,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         next: &mut [T; C],
         moved: &mut u32,
     ) -> Result<u32, Error> {
-        let mut newly = 0;
+        let (mut saturated, mut rate_limited) = (0_u32, 0_u32);
         // The moved mask in a register, written once.
         let mut moved_now = *moved;
         for (j, (((ds, s), c), n)) in step
@@ -1777,11 +1779,10 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             let (clipped, clip) = c.clip(s, wanted);
             if clip != Clip::None {
                 *ds = clipped;
-                newly |= 1 << j;
                 if clip == Clip::Saturated {
-                    outcome.saturated |= 1 << j;
+                    saturated |= 1 << j;
                 } else {
-                    outcome.rate_limited |= 1 << j;
+                    rate_limited |= 1 << j;
                 }
             }
             *n = clamp(s + clipped, c.min, c.max);
@@ -1792,7 +1793,17 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             }
         }
         *moved = moved_now;
-        Ok(newly)
+        // The end stops first: while a corrector saturates, the steps of the others are those
+        // of a solution that moves it beyond its range, not theirs to take; clipped to the rate
+        // and held, they would enter the held set for a step they never wanted (the next pass
+        // overwrites their steps). Only once the range holds are known does the rate hold.
+        if saturated != 0 {
+            outcome.saturated |= saturated;
+            Ok(saturated)
+        } else {
+            outcome.rate_limited |= rate_limited;
+            Ok(rate_limited)
+        }
     }
 
     /// Updates the health of every monitor from its readings (a failed one leaves `in_use`) and
