@@ -1750,7 +1750,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         next: &mut [T; C],
         moved: &mut u32,
     ) -> Result<u32, Error> {
-        let (mut saturated, mut rate_limited) = (0_u32, 0_u32);
+        let (mut newly, mut saturated) = (0_u32, 0_u32);
         // The moved mask in a register, written once.
         let mut moved_now = *moved;
         for (j, (((ds, s), c), n)) in step
@@ -1779,10 +1779,12 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             let (clipped, clip) = c.clip(s, wanted);
             if clip != Clip::None {
                 *ds = clipped;
+                newly |= 1 << j;
                 if clip == Clip::Saturated {
+                    outcome.saturated |= 1 << j;
                     saturated |= 1 << j;
                 } else {
-                    rate_limited |= 1 << j;
+                    outcome.rate_limited |= 1 << j;
                 }
             }
             *n = clamp(s + clipped, c.min, c.max);
@@ -1797,13 +1799,11 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         // of a solution that moves it beyond its range, not theirs to take; clipped to the rate
         // and held, they would enter the held set for a step they never wanted (the next pass
         // overwrites their steps). Only once the range holds are known does the rate hold.
-        if saturated != 0 {
-            outcome.saturated |= saturated;
-            Ok(saturated)
-        } else {
-            outcome.rate_limited |= rate_limited;
-            Ok(rate_limited)
+        if saturated != newly && saturated != 0 {
+            outcome.rate_limited &= !(newly ^ saturated);
+            newly = saturated;
         }
+        Ok(newly)
     }
 
     /// Updates the health of every monitor from its readings (a failed one leaves `in_use`) and
