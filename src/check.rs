@@ -426,13 +426,11 @@ pub enum Trend {
 
 /// The last `N` readings of one quantity, with their mean, spread and drift (no heap).
 ///
-/// Mean and spread follow B. P. Welford's running update (Technometrics 4, 1962, from memory),
-/// in its sliding form: adding `x` in place of the oldest `y` with `n` fixed,
-/// `mean' = mean + (x - y)/n` and `M₂' = M₂ + (x - y)(x - mean' + y - mean)`; `M₂` is the sum
-/// of squared deviations from the mean, never a difference of large sums of squares. Each time
-/// the buffer wraps, mean and `M₂` are recomputed from the stored values (two passes), so
-/// rounding cannot accumulate beyond one window. The slope is a least-squares fit over the
-/// sample index, from centred sums on demand.
+/// A push only stores the reading. Mean, spread and slope are computed from the held readings
+/// when asked, in two passes: the mean, then the centred sums (`M₂ = Σ(x − x̄)²`, the sum of
+/// squared deviations, never a difference of large sums of squares; the least-squares slope over
+/// the sample index). So no rounding carries from one push to the next, and a loop that pushes
+/// every cycle and asks for the mean pays `N` additions for it, and nothing per push.
 ///
 /// # Examples
 /// ```
@@ -450,8 +448,6 @@ pub struct MovingWindow<T: Real, const N: usize> {
     values: [T; N],
     next: usize,
     len: usize,
-    mean: T,
-    m2: T,
 }
 
 impl<T: Real, const N: usize> Default for MovingWindow<T, N> {
@@ -476,8 +472,6 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             values: [T::ZERO; N],
             next: 0,
             len: 0,
-            mean: T::ZERO,
-            m2: T::ZERO,
         }
     }
 
@@ -558,26 +552,11 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
         let Some(slot) = self.values.get_mut(self.next) else {
             return Err(Error::OutOfBounds);
         };
+        *slot = x;
         if self.len < N {
-            let oldest_len = self.len;
-            *slot = x;
-            self.len = oldest_len + 1;
-            let n = T::from_u32(u32::try_from(self.len).unwrap_or(u32::MAX));
-            let d = x - self.mean;
-            self.mean += d / n;
-            self.m2 += d * (x - self.mean);
-        } else {
-            let y = *slot;
-            *slot = x;
-            let n = T::from_u32(u32::try_from(N).unwrap_or(u32::MAX));
-            let old_mean = self.mean;
-            self.mean += (x - y) / n;
-            self.m2 += (x - y) * (x - self.mean + y - old_mean);
+            self.len += 1;
         }
         self.next = if self.next + 1 >= N { 0 } else { self.next + 1 };
-        if self.next == 0 {
-            self.resync();
-        }
         Ok(())
     }
 
@@ -599,8 +578,8 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
         if self.len == 0 {
             Err(Error::Empty)
         } else {
-            // Readings near the largest float can overflow the running sums.
-            fits(self.mean)
+            // Readings near the largest float can overflow the sum.
+            fits(self.mean())
         }
     }
 
@@ -624,9 +603,12 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             1 => Ok(T::ZERO),
             n => {
                 let dof = T::from_u32(u32::try_from(n - 1).unwrap_or(u32::MAX));
-                // (`max` would turn a NaN M₂ into 0: check it first.)
-                let m2 = fits(self.m2)?;
-                fits((m2.max(T::ZERO) / dof).sqrt())
+                let mean = fits(self.mean())?;
+                let mut m2 = T::ZERO;
+                for &x in self.held() {
+                    m2 += (x - mean) * (x - mean);
+                }
+                fits((m2 / dof).sqrt())
             }
         }
     }
@@ -652,11 +634,12 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
         }
         let n = T::from_u32(u32::try_from(self.len).unwrap_or(u32::MAX));
         let centre = (n - T::ONE) * T::HALF;
+        let mean = fits(self.mean())?;
         let mut sxy = T::ZERO;
         let mut sxx = T::ZERO;
         for (i, x) in self.oldest_first().enumerate() {
             let di = T::from_u32(u32::try_from(i).unwrap_or(u32::MAX)) - centre;
-            sxy += di * (x - self.mean);
+            sxy += di * (x - mean);
             sxx += di * di;
         }
         fits(sxy / sxx)
@@ -722,19 +705,21 @@ impl<T: Real, const N: usize> MovingWindow<T, N> {
             .copied()
     }
 
-    /// Mean and `M₂` from the stored values, two passes (run when the buffer wraps).
-    fn resync(&mut self) {
-        let n = T::from_u32(u32::try_from(self.len).unwrap_or(u32::MAX));
-        let mut sum = T::ZERO;
-        for x in self.oldest_first() {
+    /// The held readings in the order of the buffer (the oldest first until it wraps).
+    fn held(&self) -> &[T] {
+        self.values.get(..self.len).unwrap_or(&[])
+    }
+
+    /// Sum of the held readings over their number (not checked; `NaN` or `∞` on overflow; 0/0
+    /// when empty).
+    fn mean(&self) -> T {
+        let (mut sum, rest) = match self.held().split_first() {
+            Some((&first, rest)) => (first, rest),
+            None => (T::ZERO, &[][..]),
+        };
+        for &x in rest {
             sum += x;
         }
-        let mean = sum / n;
-        let mut m2 = T::ZERO;
-        for x in self.oldest_first() {
-            m2 += (x - mean) * (x - mean);
-        }
-        self.mean = mean;
-        self.m2 = m2;
+        sum / T::from_u32(u32::try_from(self.len).unwrap_or(u32::MAX))
     }
 }

@@ -698,6 +698,8 @@ pub struct Tuning<T: Real> {
     gain: T,
     regularisation: T,
     cutoff: T,
+    // g/(1 + α²), the factor of the one-corrector step, once at construction.
+    single_gain: T,
 }
 
 impl<T: Real> Tuning<T> {
@@ -734,6 +736,7 @@ impl<T: Real> Tuning<T> {
             gain,
             regularisation,
             cutoff,
+            single_gain: gain / (T::ONE + regularisation * regularisation),
         })
     }
 
@@ -1007,9 +1010,7 @@ pub fn try_single_step<T: Real>(
         };
         return Ok((s, outcome));
     }
-    let alpha = tuning.regularisation;
-    let wanted = try_finite(-tuning.gain * x / (r * (T::ONE + alpha * alpha)))
-        .map_err(|_| Error::Overflow)?;
+    let wanted = try_finite(-tuning.single_gain * x / r).map_err(|_| Error::Overflow)?;
     // As the loop: a step within the rate that lands within the range is taken as it is.
     let candidate = given + wanted;
     if wanted.abs() <= corrector.max_step
@@ -1218,6 +1219,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
                 gain: T::ZERO,
                 regularisation: T::ZERO,
                 cutoff: T::ZERO,
+                single_gain: T::ZERO,
             },
             in_use: 0,
             last: [[T::ZERO; 2]; M],

@@ -577,6 +577,16 @@ pub trait Real:
     /// assert_eq!(Real::to_bits_u64(1.0_f32), 0x3f80_0000);
     /// ```
     fn to_bits_u64(self) -> u64;
+    /// The float with the raw bits `bits` (for `f32` their low 32), the inverse of
+    /// [`to_bits_u64`](Self::to_bits_u64).
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::Real;
+    /// assert_eq!(<f32 as Real>::from_bits_u64(0x3f80_0000), 1.0);
+    /// assert_eq!(<f64 as Real>::from_bits_u64(2.5_f64.to_bits()), 2.5);
+    /// ```
+    fn from_bits_u64(bits: u64) -> Self;
     /// The binary exponent `e` with `2^e ≤ |self| < 2^(e+1)` (`libm::ilogbf`/`ilogb`; subnormals
     /// included; `i32::MIN` for 0 and NaN, `i32::MAX` for the infinities).
     ///
@@ -907,6 +917,10 @@ macro_rules! impl_real {
             #[inline(always)]
             fn to_bits_u64(self) -> u64 {
                 self.to_bits() as u64
+            }
+            #[inline(always)]
+            fn from_bits_u64(bits: u64) -> Self {
+                $t::from_bits(bits as $bits)
             }
             #[inline(always)]
             fn ilogb(self) -> i32 {

@@ -190,6 +190,15 @@ impl<T: Real> ThreeVector<T> {
         if !self.is_finite() {
             return Err(Error::NonFinite);
         }
+        // Along an axis (two components ±0, told from their bits): the unit vector is the third
+        // one's sign, exactly what a/|a| gives, without the norm.
+        let zero = |c: T| c.abs().to_bits_u64() == 0;
+        match (zero(self.x), zero(self.y), zero(self.z)) {
+            (true, true, false) => return Ok(Self::new(self.x, self.y, T::ONE.copysign(self.z))),
+            (true, false, true) => return Ok(Self::new(self.x, T::ONE.copysign(self.y), self.z)),
+            (false, true, true) => return Ok(Self::new(T::ONE.copysign(self.x), self.y, self.z)),
+            _ => {}
+        }
         // Compared as bits (a·a ≥ 0, so the order of the bits is the order of the values): no
         // floating-point comparison, which is a library call on a chip without an FPU.
         let n2 = self.norm_squared();
@@ -307,6 +316,42 @@ mod tests {
     #[test]
     fn a_static_holds_a_vector() {
         assert_eq!(ORIGIN.norm(), 0.0);
+    }
+
+    #[test]
+    fn unit_along_an_axis_is_the_sign_and_elsewhere_a_over_its_norm() {
+        let along = [
+            (
+                ThreeVector::new(0.0_f32, 0.0, -3.0),
+                ThreeVector::new(0.0, 0.0, -1.0),
+            ),
+            (
+                ThreeVector::new(0.0, 1e-40, -0.0),
+                ThreeVector::new(0.0, 1.0, -0.0),
+            ),
+            (
+                ThreeVector::new(-f32::MAX, 0.0, 0.0),
+                ThreeVector::new(-1.0, 0.0, 0.0),
+            ),
+        ];
+        for (v, unit) in along {
+            assert_eq!(v.try_unit(), Ok(unit));
+            assert_eq!(
+                v.try_unit().map(|u| u.z.is_sign_negative()),
+                Ok(v.z.is_sign_negative())
+            );
+        }
+        let v = ThreeVector::new(1.0_f32, -2.0, 2.0);
+        assert_eq!(
+            v.try_unit(),
+            Ok(ThreeVector::new(1.0 / 3.0, -2.0 / 3.0, 2.0 / 3.0))
+        );
+        let tiny = ThreeVector::new(3.0e-30_f32, 4.0e-30, 0.0)
+            .try_unit()
+            .unwrap();
+        assert!(
+            (tiny.x - 0.6).abs() < 2.0 * f32::EPSILON && (tiny.y - 0.8).abs() < 2.0 * f32::EPSILON
+        );
     }
 
     #[test]

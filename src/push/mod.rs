@@ -514,7 +514,6 @@ pub struct StepFactors<T: Real> {
     dt: T,
     c_dt: T,
     kick: T,
-    rotation: T,
 }
 
 impl<T: Real> StepFactors<T> {
@@ -542,21 +541,59 @@ impl<T: Real> StepFactors<T> {
         }
         // c Δt with the exact two-part c (C_LO = 10 m/s in f32, 0 in f64); no `mul_add`, which
         // would go through soft double on a chip without a hardware FMA.
-        let c_dt = T::C_HI * dt + T::C_LO * dt;
-        // Q/mc² in 1/V, the factor of the scaled equation of motion
-        let kick = species.charge_over_rest_energy() * c_dt * T::HALF;
-        let rotation = kick * T::SPEED_OF_LIGHT;
-        // (rotation = kick · c is finite only if kick is, and kick only if c Δt is; c Δt > Δt
-        // cannot underflow.)
-        if !rotation.is_finite() {
+        Self::from_light_path(species, dt, T::C_HI * dt + T::C_LO * dt)
+    }
+
+    /// The factors of the step in which a particle in the state `motion` covers `length_m` (m):
+    /// `c Δt = L/β`, `Δt = L/(βc)`, for one step through an element of that length.
+    ///
+    /// The same factors as [`try_new`](Self::try_new) with `Δt = L/v` (`v` from
+    /// [`Motion::speed`]), formed without going through the speed: `c Δt` with one rounding.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`] if `length_m` is not finite; [`Error::NonPositiveLength`] if
+    /// `length_m ≤ 0`; [`Error::Overflow`] for a particle at rest (it never covers the length)
+    /// or when a factor does not fit the precision.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::{Motion, Species, push::StepFactors};
+    /// // A 2.5 MeV proton (β = 0.0728) through 0.125 m: 5.72 ns.
+    /// let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 2.5e6)?;
+    /// let f = StepFactors::try_over_length(&p, 0.125)?;
+    /// assert!((f.c_dt() - 0.125 / p.beta()).abs() < 1e-15);
+    /// let by_time = StepFactors::try_new(Species::PROTON, 0.125 / p.speed())?;
+    /// assert!((f.dt() / by_time.dt() - 1.0).abs() < 1e-15);
+    /// assert!((f.kick() / by_time.kick() - 1.0).abs() < 1e-15);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[inline(always)]
+    pub fn try_over_length(motion: &Motion<T>, length_m: T) -> Result<Self, Error> {
+        if crate::try_finite(length_m)? <= T::ZERO {
+            return Err(Error::NonPositiveLength);
+        }
+        // (At rest c Δt is infinite, and so is the kick: refused as Overflow.)
+        let c_dt = length_m / motion.beta();
+        let dt = c_dt * T::INV_SPEED_OF_LIGHT;
+        if dt == T::ZERO {
+            // A length so short that Δt underflows.
             return Err(Error::Overflow);
         }
-        Ok(Self {
-            dt,
-            c_dt,
-            kick,
-            rotation,
-        })
+        Self::from_light_path(motion.species(), dt, c_dt)
+    }
+
+    /// The factors from `Δt` and `c Δt`; [`Error::Overflow`] when they do not fit.
+    #[inline(always)]
+    fn from_light_path(species: Species<T>, dt: T, c_dt: T) -> Result<Self, Error> {
+        // Q/mc² in 1/V, the factor of the scaled equation of motion
+        let kick = species.charge_over_rest_energy() * c_dt * T::HALF;
+        // The rotation factor kick · c must fit too (finite only if kick is, and kick only if
+        // c Δt is; c Δt > Δt cannot underflow): |kick| ≤ MAX/c, told from the bits (a
+        // comparison of non-negative floats is one of their bits).
+        if kick.abs().to_bits_u64() > (T::MAX * T::INV_SPEED_OF_LIGHT).to_bits_u64() {
+            return Err(Error::Overflow);
+        }
+        Ok(Self { dt, c_dt, kick })
     }
 
     /// The step `Δt` in s.
@@ -615,8 +652,8 @@ impl<T: Real> StepFactors<T> {
     /// ```
     #[must_use]
     #[inline]
-    pub const fn rotation(&self) -> T {
-        self.rotation
+    pub fn rotation(&self) -> T {
+        self.kick * T::SPEED_OF_LIGHT
     }
 
     /// The `u`-update factors of a step `k Δt`, `k` a power of two (the scaling is then exact),
@@ -625,7 +662,6 @@ impl<T: Real> StepFactors<T> {
     fn scaled(&self, k: T) -> Self {
         Self {
             kick: self.kick * k,
-            rotation: self.rotation * k,
             ..*self
         }
     }

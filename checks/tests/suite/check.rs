@@ -113,7 +113,7 @@ fn window_edges<T: Real>() {
 
 fn window_is_stable_at_a_large_offset<T: Real>() {
     // Readings 1e4 + k*0.01 pattern: a sum-of-squares formula loses everything in f32
-    // (1e8 squared spacing is 8); Welford's update and the two-pass resync keep the spread.
+    // (1e8 squared spacing is 8); the two-pass spread (mean first, then Σ(x − x̄)²) keeps it.
     let mut w = MovingWindow::<T, 16>::new();
     let pattern = [0.0, 0.01, -0.01, 0.02, -0.02, 0.0, 0.01, -0.01];
     let mut stored = [0.0_f64; 16];
@@ -131,7 +131,7 @@ fn window_is_stable_at_a_large_offset<T: Real>() {
         T::MANTISSA_DIGITS,
         (spread / var.sqrt() - 1.0).abs()
     );
-    // measured 1.2e-8 (f32) and 0 (f64): Welford's deviations are exact near the mean
+    // measured 1.2e-8 (f32) and 0 (f64): the deviations from the mean are exact near the mean
     let bar = if T::MANTISSA_DIGITS == 24 {
         1e-5
     } else {
@@ -353,9 +353,9 @@ mod mutants {
 
     sharper_edges!(f32, edges_f32);
     sharper_edges!(f64, edges_f64);
-    /// Every N readings the moving window recomputes its sums from the values it holds, so after
-    /// each full cycle its statistics are exactly those of a fresh window fed the same N values,
-    /// however long it has run.
+    /// The moving window computes its statistics from the values it holds, so after each full
+    /// cycle they are exactly those of a fresh window fed the same N values, however long it has
+    /// run.
     #[test]
     fn moving_window_resynchronises_every_cycle() {
         use fourforce::check::MovingWindow;

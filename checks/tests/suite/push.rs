@@ -763,6 +763,77 @@ fn sums_of_sources_add() {
     assert_eq!(f.c_b(), v3(0.0, 4.0, 2.0));
 }
 
+/// The Boris step in a magnetic field alone (no half kicks, γ⁻ the particle's γ) against the same
+/// step with an electric field so weak that its kicks vanish below an ulp of u (the general path,
+/// γ⁻ from √(1 + |u⁻|²)): the same change of u to a few eps; and the factors of a step over a
+/// length against those of the step Δt = L/v.
+#[test]
+fn magnetic_boris_step_is_the_general_one() {
+    for (u, b) in [
+        ([0.0, 0.0, 0.073], [0.0, -0.01, 0.0]),
+        ([1.0, 2.0, 0.5], [0.2, -0.3, 1.0]),
+        ([-3.0, 0.1, 40.0], [5.0, 0.0, -2.0]),
+    ] {
+        let pusher = Boris::try_new(Species::<f64>::PROTON, 1.0e-8).unwrap();
+        let magnetic =
+            FieldTensor::try_from_fields(ThreeVector::ZERO, v3(b[0], b[1], b[2])).unwrap();
+        let weak =
+            FieldTensor::try_from_fields(v3(1.0e-280, 0.0, 0.0), v3(b[0], b[1], b[2])).unwrap();
+        let u = v3::<f64>(u[0], u[1], u[2]);
+        let gamma = (1.0 + u.norm_squared()).sqrt();
+        let fast = pusher.beta_gamma_change(u, gamma, &magnetic);
+        let general = pusher.beta_gamma_change(u, gamma, &weak);
+        let d = (fast - general).norm() / general.norm();
+        assert!(d < 4.0 * f64::EPSILON, "{d:e} for u = {u:?}");
+    }
+}
+
+#[test]
+fn step_over_a_length_is_the_step_of_its_flight_time() {
+    use fourforce::push::StepFactors;
+    use fourforce::{Error, Motion};
+    for kinetic_ev in [1.0e3, 2.5e6, 1.0e9, 1.0e13] {
+        let m = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, kinetic_ev).unwrap();
+        let over = StepFactors::try_over_length(&m, 0.125).unwrap();
+        let timed = StepFactors::try_new(Species::PROTON, 0.125 / m.speed()).unwrap();
+        assert!(
+            rel(over.c_dt(), timed.c_dt()) < 4.0 * f64::EPSILON,
+            "{kinetic_ev}"
+        );
+        assert!(
+            rel(over.dt(), timed.dt()) < 4.0 * f64::EPSILON,
+            "{kinetic_ev}"
+        );
+        assert!(
+            rel(over.kick(), timed.kick()) < 4.0 * f64::EPSILON,
+            "{kinetic_ev}"
+        );
+        assert!(rel(over.rotation(), timed.rotation()) < 4.0 * f64::EPSILON);
+    }
+    let proton = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 2.5e6).unwrap();
+    let at_rest = Motion::at_rest(Species::<f32>::PROTON);
+    assert_eq!(
+        StepFactors::try_over_length(&at_rest, 1.0),
+        Err(Error::Overflow)
+    );
+    assert_eq!(
+        StepFactors::try_over_length(&proton, 0.0),
+        Err(Error::NonPositiveLength)
+    );
+    assert_eq!(
+        StepFactors::try_over_length(&proton, -1.0),
+        Err(Error::NonPositiveLength)
+    );
+    assert_eq!(
+        StepFactors::try_over_length(&proton, f32::NAN),
+        Err(Error::NonFinite)
+    );
+    assert_eq!(
+        StepFactors::try_over_length(&proton, 1.0e-44),
+        Err(Error::Overflow)
+    );
+}
+
 #[test]
 fn neutral_species_drifts_straight() {
     let neutron = Species::<f64>::NEUTRON;

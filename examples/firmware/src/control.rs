@@ -24,7 +24,7 @@
 
 use fourforce::check::{EnergyWindow, MovingWindow, Verdict};
 use fourforce::orbit::{self, Corrector, Tuning};
-use fourforce::push::{Boris, Particle, Pusher};
+use fourforce::push::{Boris, Particle, Pusher, StepFactors};
 use fourforce::{Error, FieldTensor, Motion, Real, Species, ThreeVector, optics};
 
 /// The invented injector line.
@@ -287,10 +287,10 @@ pub fn cycle<T: Real>(
     let charge = machine.window.species().charge();
     let force = field.try_four_force(charge, particle.four_velocity())?;
     // 5. One push step through the corrector, its length in one step.
-    let pusher = Boris::try_new(
-        machine.window.species(),
-        machine.corrector_length_m / motion.speed(),
-    )?;
+    let pusher = Boris::from_factors(StepFactors::try_over_length(
+        &motion,
+        machine.corrector_length_m,
+    )?);
     // One step from a fresh particle: nothing to carry into a next step, so the plain sums (the
     // compensated `try_step` keeps kicks below an ulp over many steps, at about 60 % more cost).
     pusher.try_step_plain(&mut particle, &field)?;

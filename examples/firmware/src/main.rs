@@ -20,7 +20,7 @@ use board::{Bench, Out};
 use control::{BOUNDS_EPS, LoopState, Machine, NOMINAL_KINETIC_EV, OUTPUT_NAMES, OUTPUTS, Reading};
 use core::hint::black_box;
 use cortex_m_rt::entry;
-use fourforce::push::{Boris, Particle, Pusher};
+use fourforce::push::{Boris, Particle, Pusher, StepFactors};
 use fourforce::{Error, Species};
 
 /// One reading of the run and the `f64` result of its cycle, rounded to `f32`.
@@ -108,18 +108,22 @@ fn measure_parts(
         }
     });
 
-    // Building the pusher for a step (once per cycle in `control::cycle`).
-    let dt = machine.corrector_length_m / nominal.speed();
+    // Building the pusher for the step through the corrector (once per cycle in
+    // `control::cycle`).
+    let length = machine.corrector_length_m;
     bench.measure(out, "pusher_new", CALLS, || {
         for _ in 0..CALLS {
-            black_box(Boris::try_new(black_box(species), black_box(dt)).is_ok());
+            let factors = StepFactors::try_over_length(black_box(&nominal), black_box(length));
+            black_box(factors.map(Boris::from_factors).is_ok());
         }
     });
 
     // One plain Boris step through the corrector, repeated: the step the cycle uses, which pushes
     // one step from a fresh particle (the compensated `try_step` is counted by the `worst`
     // binary).
-    let pusher = Boris::try_new(species, dt).map_err(|_| "pusher")?;
+    let pusher = StepFactors::try_over_length(&nominal, length)
+        .map(Boris::from_factors)
+        .map_err(|_| "pusher")?;
     let mut particle = Particle::try_from_motion(&nominal, axis, fourforce::ThreeVector::ZERO)
         .map_err(|_| "particle")?;
     bench.figure(out, "push_plain", CALLS, || {

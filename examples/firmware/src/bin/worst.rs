@@ -28,7 +28,7 @@ use control::{LoopState, Machine, NOMINAL_KINETIC_EV, OUTPUTS, Reading};
 use core::hint::black_box;
 use cortex_m_rt::entry;
 use fourforce::check::MovingWindow;
-use fourforce::push::{Boris, Particle, Pusher};
+use fourforce::push::{Boris, Particle, Pusher, StepFactors};
 use fourforce::{Error, FieldTensor, Motion, Species, ThreeVector};
 
 /// One reading of the firmware's run and its expected result (only the readings are used).
@@ -122,7 +122,7 @@ fn run(out: &mut Out, b: &mut Bench, machine: &Machine<f32>) -> bool {
             .chain(values().filter_map(|t| Motion::try_from_kinetic_energy(species, t).ok()))
     };
 
-    // 2. Plausibility, rigidity, speed, particle.
+    // 2. Plausibility, rigidity, particle.
     for m in motions() {
         b.worst(out, "EnergyWindow::check_motion", || {
             black_box(black_box(&machine.window).check_motion(black_box(&m)));
@@ -130,7 +130,6 @@ fn run(out: &mut Out, b: &mut Bench, machine: &Machine<f32>) -> bool {
         b.worst(out, "Motion::try_magnetic_rigidity", || {
             black_box(black_box(&m).try_magnetic_rigidity().is_ok())
         });
-        b.worst(out, "Motion::speed", || black_box(black_box(&m).speed()));
         b.worst(out, "Particle::try_from_motion", || {
             black_box(
                 Particle::try_from_motion(black_box(&m), black_box(axis), ThreeVector::ZERO)
@@ -139,8 +138,8 @@ fn run(out: &mut Out, b: &mut Bench, machine: &Machine<f32>) -> bool {
         });
     }
 
-    // 3. The moving window: every value pushed in turn (the 8th push of each round resynchronises
-    // the sums), and the mean after each.
+    // 3. The moving window: every value pushed in turn (a push stores it), and the mean (the sum
+    // of the held values) after each.
     let mut window = MovingWindow::<f32, { control::WINDOW }>::new();
     for x in values() {
         b.worst(out, "MovingWindow::try_push", || {
@@ -211,15 +210,21 @@ fn run(out: &mut Out, b: &mut Bench, machine: &Machine<f32>) -> bool {
         }
     }
 
-    // 7. The pusher for a step of each value (s), and one step, plain and compensated: every
-    // accepted pusher on the nominal beam, and the nominal pusher on every particle and field.
-    let dt = machine.corrector_length_m / nominal.speed();
-    for x in values() {
-        b.worst(out, "Boris::try_new", || {
-            black_box(Boris::try_new(black_box(species), black_box(x)).is_ok())
+    // 7. The step factors over the corrector for every state of motion and over each value (m)
+    // for the nominal beam, and one step, plain and compensated: pushers of every step Δt (each
+    // value in s) on the nominal beam, and the nominal pusher on every particle and field.
+    let length = machine.corrector_length_m;
+    for m in motions() {
+        b.worst(out, "StepFactors::try_over_length", || {
+            black_box(StepFactors::try_over_length(black_box(&m), black_box(length)).is_ok())
         });
     }
-    let Ok(pusher) = Boris::try_new(species, dt) else {
+    for x in values() {
+        b.worst(out, "StepFactors::try_over_length", || {
+            black_box(StepFactors::try_over_length(black_box(&nominal), black_box(x)).is_ok())
+        });
+    }
+    let Ok(pusher) = StepFactors::try_over_length(&nominal, length).map(Boris::from_factors) else {
         return false;
     };
     let step = |b: &mut Bench,
