@@ -192,12 +192,21 @@ impl<T: Real> ThreeVector<T> {
         }
         // Along an axis (two components ±0, told from their bits): the unit vector is the third
         // one's sign, exactly what a/|a| gives, without the norm.
-        let zero = |c: T| c.abs().to_bits_u64() == 0;
-        match (zero(self.x), zero(self.y), zero(self.z)) {
-            (true, true, false) => return Ok(Self::new(self.x, self.y, T::ONE.copysign(self.z))),
-            (true, false, true) => return Ok(Self::new(self.x, T::ONE.copysign(self.y), self.z)),
-            (false, true, true) => return Ok(Self::new(T::ONE.copysign(self.x), self.y, self.z)),
-            _ => {}
+        // (Pairs of magnitudes or-ed together: a single one compared with 0 would become a
+        // floating-point comparison again.)
+        let (x, y, z) = (
+            self.x.abs().to_bits_u64(),
+            self.y.abs().to_bits_u64(),
+            self.z.abs().to_bits_u64(),
+        );
+        if x | y == 0 && z != 0 {
+            return Ok(Self::new(self.x, self.y, T::ONE.copysign(self.z)));
+        }
+        if x | z == 0 && y != 0 {
+            return Ok(Self::new(self.x, T::ONE.copysign(self.y), self.z));
+        }
+        if y | z == 0 && x != 0 {
+            return Ok(Self::new(T::ONE.copysign(self.x), self.y, self.z));
         }
         // Compared as bits (a·a ≥ 0, so the order of the bits is the order of the values): no
         // floating-point comparison, which is a library call on a chip without an FPU.
