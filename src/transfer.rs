@@ -612,8 +612,9 @@ impl<T: Real> TransferMap<T> {
     ///
     /// # Errors
     /// [`Error::NonFinite`]; [`Error::BelowRestEnergy`] when the gap takes more than the kinetic
-    /// energy; [`Error::Overflow`] when it brings the reference to rest (no map exists) or the
-    /// reference starts at rest.
+    /// energy; [`Error::Overflow`] when it brings the reference to rest (no map exists), the
+    /// reference starts at rest, or a factor `p₀/p₁`, `v₀p₀/(v₁p₁)` does not fit the precision
+    /// (overflows, or underflows to zero).
     ///
     /// # Examples
     /// ```
@@ -655,17 +656,21 @@ impl<T: Real> TransferMap<T> {
         if motion.momentum() == T::ZERO || after.momentum() == T::ZERO {
             return Err(Error::Overflow);
         }
-        let slope = fits(motion.momentum() / after.momentum())?;
+        let slope = motion.momentum() / after.momentum();
         // v p = Eρ |Q|: the ratio of the electric rigidities, each free of cancellation
         let delta = fits(motion.try_electric_rigidity()? / after.try_electric_rigidity()?)?;
-        Ok((slope, delta, after))
+        // a ratio that underflows to zero would make the map singular
+        if slope == T::ZERO || delta == T::ZERO {
+            return Err(Error::Overflow);
+        }
+        Ok((fits(slope)?, delta, after))
     }
 
-    /// `Ok(self)` if every entry is finite, else [`Error::Overflow`] (a product of maps can
-    /// overflow where no element does).
+    /// `Ok(self)` if every entry is finite and `R66 ≠ 0`, else [`Error::Overflow`] (a product of
+    /// maps can overflow, or the product of many gaps' `R66` underflow, where no element does).
     ///
     /// # Errors
-    /// [`Error::Overflow`] when an entry is infinite or NaN.
+    /// [`Error::Overflow`] when an entry is infinite or NaN, or `R66` is zero.
     ///
     /// # Examples
     /// ```
@@ -689,7 +694,8 @@ impl<T: Real> TransferMap<T> {
             + sum(self.dispersion)
             + sum(self.time)
             + (self.time_per_delta + self.delta_scale) * T::ZERO;
-        if all == T::ZERO {
+        // and R66 ≠ 0: the product of many gaps' factors may underflow (a singular map)
+        if all == T::ZERO && self.delta_scale != T::ZERO {
             Ok(self)
         } else {
             Err(Error::Overflow)
@@ -963,8 +969,9 @@ impl<T: Real> TransferMap<T> {
     ///
     /// # Errors
     /// [`Error::Coupled`] for a cell that couples the planes (a solenoid); [`Error::Unstable`]
-    /// when `|R11 + R22| ≥ 2` in a plane, or the cell changes the energy (`R66 ≠ 1`: no periodic
-    /// solution); [`Error::Overflow`] when a result does not fit.
+    /// when `|R11 + R22| ≥ 2` or `R12 = 0` in a plane, or the cell changes the energy (`R66 ≠ 1`:
+    /// no periodic solution); [`Error::Overflow`] when a result does not fit (or `β` underflows
+    /// to zero).
     ///
     /// # Examples
     /// ```
@@ -1010,7 +1017,9 @@ fn periodic_plane<T: Real>(
     let (m11, m12) = (entry(a, base, base), entry(a, base, base + 1));
     let (m21, m22) = (entry(a, base + 1, base), entry(a, base + 1, base + 1));
     let half_trace = (m11 + m22) * T::HALF;
-    if !half_trace.is_finite() || half_trace.abs() >= T::ONE {
+    // R12 = 0 with det R = 1 means |trace| = |R11 + 1/R11| ≥ 2: unstable however the trace
+    // rounded
+    if !half_trace.is_finite() || half_trace.abs() >= T::ONE || m12 == T::ZERO {
         return Err(Error::Unstable);
     }
     // sin μ with the sign of R12, so that β = R12/sin μ > 0
@@ -1019,6 +1028,10 @@ fn periodic_plane<T: Real>(
         .copysign(m12);
     let beta = fits(m12 / sin_mu)?;
     let alpha = fits((m11 - m22) * T::HALF / sin_mu)?;
+    if beta == T::ZERO {
+        // R12/sin μ underflowed
+        return Err(Error::Overflow);
+    }
     let mut mu = sin_mu.atan2(half_trace);
     if mu < T::ZERO {
         mu = mu + T::PI + T::PI;
@@ -1084,7 +1097,8 @@ impl<T: Real> Twiss<T> {
     /// Twiss parameters from `β` (m, > 0) and `α`.
     ///
     /// # Errors
-    /// [`Error::NonFinite`]; [`Error::NonPositiveLength`] for `β ≤ 0`.
+    /// [`Error::NonFinite`]; [`Error::NonPositiveLength`] for `β ≤ 0`; [`Error::Overflow`] when
+    /// `γ = (1 + α²)/β` does not fit the precision.
     ///
     /// # Examples
     /// ```
@@ -1093,10 +1107,10 @@ impl<T: Real> Twiss<T> {
     /// ```
     pub fn try_new(beta_m: T, alpha: T) -> Result<Self, Error> {
         let beta_m = positive(beta_m)?;
-        Ok(Self {
-            beta_m,
-            alpha: try_finite(alpha)?,
-        })
+        let alpha = try_finite(alpha)?;
+        // γ is read on demand: it must fit, as β and α do
+        fits((T::ONE + alpha * alpha) / beta_m)?;
+        Ok(Self { beta_m, alpha })
     }
 
     /// `β` in m.
@@ -1177,7 +1191,8 @@ impl<T: Real> Envelope<T> {
     ///
     /// # Errors
     /// [`Error::NonFinite`]; [`Error::NonPositiveEmittance`] for `ε ≤ 0`;
-    /// [`Error::NegativeMagnitude`] for `σ_δ < 0`.
+    /// [`Error::NegativeMagnitude`] for `σ_δ < 0`; [`Error::Overflow`] when a moment does not fit
+    /// the precision.
     ///
     /// # Examples
     /// ```
@@ -1241,9 +1256,19 @@ impl<T: Real> Envelope<T> {
 
     fn checked(self) -> Result<Self, Error> {
         let all = self.sigma.iter().flatten().chain(self.dispersion.iter());
-        if all.fold(self.momentum_spread.is_finite(), |ok, x| {
-            ok && x.is_finite()
-        }) {
+        // the moments, and what the accessors compute from them (sizes, emittances)
+        let derived = [
+            self.size(0),
+            self.size(2),
+            self.emittance_squared(0),
+            self.emittance_squared(2),
+        ];
+        if all
+            .chain(derived.iter())
+            .fold(self.momentum_spread.is_finite(), |ok, x| {
+                ok && x.is_finite()
+            })
+        {
             Ok(self)
         } else {
             Err(Error::Overflow)
@@ -1372,18 +1397,24 @@ impl<T: Real> Envelope<T> {
     }
 
     fn emittance(&self, i: usize) -> T {
+        self.emittance_squared(i).max(T::ZERO).sqrt()
+    }
+
+    /// `Σᵢᵢ Σᵢ₊₁ᵢ₊₁ − Σᵢᵢ₊₁²`: not finite when a product does not fit.
+    fn emittance_squared(&self, i: usize) -> T {
         let (a, b, c) = (
             entry(&self.sigma, i, i),
             entry(&self.sigma, i, i + 1),
             entry(&self.sigma, i + 1, i + 1),
         );
-        (a * c - b * b).max(T::ZERO).sqrt()
+        a * c - b * b
     }
 
     /// The horizontal Twiss parameters of the projected moments: `β = Σ₁₁/ε`, `α = −Σ₁₂/ε`.
     ///
     /// # Errors
-    /// [`Error::NonPositiveEmittance`] when the projected emittance has rounded to zero.
+    /// [`Error::NonPositiveEmittance`] when the projected emittance has rounded to zero;
+    /// [`Error::Overflow`] when `β`, `α` or `γ` does not fit the precision.
     ///
     /// # Examples
     /// ```
@@ -1419,10 +1450,13 @@ impl<T: Real> Envelope<T> {
         if e <= T::ZERO {
             return Err(Error::NonPositiveEmittance);
         }
-        Twiss::try_new(
-            entry(&self.sigma, i, i) / e,
-            -entry(&self.sigma, i, i + 1) / e,
-        )
+        // a quotient that does not fit (or underflows to β = 0) is an overflow, not a bad input
+        let beta = fits(entry(&self.sigma, i, i) / e)?;
+        let alpha = fits(-entry(&self.sigma, i, i + 1) / e)?;
+        if beta <= T::ZERO {
+            return Err(Error::Overflow);
+        }
+        Twiss::try_new(beta, alpha)
     }
 
     /// The dispersion `(D_x [m], D_x' [rad], D_y [m], D_y' [rad])`.

@@ -34,7 +34,9 @@
 //! `w_i = (σ_0/σ_i)² ≤ 1`, differences `d_i = T_i − T_0` (exact when the witnesses agree within a
 //! factor of two), `T̂ = T_0 + Σ w_i d_i / Σ w_i`, `σ_T̂ = σ_0/√(Σ w_i)`,
 //! `χ² = Σ ((d_i − (T̂ − T_0))/σ_i)²`. Nothing large is subtracted, no weight can overflow or
-//! underflow, and `f32` keeps the fused energy as accurate as the witnesses themselves.
+//! underflow, and `f32` keeps the fused energy as accurate as the witnesses themselves. The sum
+//! `Σ w_i d_i` runs on `d_i/16` (exact), so that it cannot overflow; a `χ²` beyond the range of
+//! the precision is given as its largest finite value.
 //!
 //! # Consistency
 //! The witnesses are inconsistent when the upper-tail probability of `χ²` with `n − 1` degrees of
@@ -723,15 +725,18 @@ fn fuse<T: Real>(estimates: &[Estimate<T>], skip: Option<usize>) -> Option<(Esti
         _ => Some(e),
     })?;
     let (t0, s0) = (reference.kinetic, reference.sigma);
+    // The moment sums differences scaled by 2⁻⁴ (exact), so that 16 differences near the
+    // largest finite energy cannot overflow it.
+    let sixteenth = T::from_f64(0.0625);
     let mut weights = T::ZERO;
     let mut moment = T::ZERO;
     for e in kept() {
         let r = s0 / e.sigma;
         let w = r * r;
         weights += w;
-        moment += w * (e.kinetic - t0);
+        moment += w * ((e.kinetic - t0) * sixteenth);
     }
-    let shift = moment / weights;
+    let shift = moment / weights * T::from_f64(16.0);
     let mut chi_squared = T::ZERO;
     for e in kept() {
         let z = ((e.kinetic - t0) - shift) / e.sigma;
@@ -739,10 +744,13 @@ fn fuse<T: Real>(estimates: &[Estimate<T>], skip: Option<usize>) -> Option<(Esti
     }
     Some((
         Estimate {
-            kinetic: t0 + shift,
+            // a mean of energies in [0, MAX]: the bounds only catch a rounding past them
+            kinetic: (t0 + shift).min(T::MAX).max(T::ZERO),
             sigma: s0 / weights.sqrt(),
         },
-        chi_squared,
+        // witnesses so far apart that χ² does not fit: the largest finite value (inconsistent
+        // at every level)
+        chi_squared.min(T::MAX),
     ))
 }
 
@@ -813,7 +821,8 @@ impl<T: Real, const N: usize> Assessment<T, N> {
         self.fused
     }
 
-    /// `χ² = Σ (T_i − T̂)²/σ_i²` (0 for one witness).
+    /// `χ² = Σ (T_i − T̂)²/σ_i²` (0 for one witness; the largest finite value when the
+    /// witnesses are so far apart that it does not fit).
     ///
     /// # Examples
     /// ```

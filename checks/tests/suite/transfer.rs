@@ -1046,3 +1046,93 @@ mod line {
         assert!(worst < 16.0, "{worst}");
     }
 }
+
+mod regressions {
+    //! Regressions: bugs that fuzzing, the f32 sweep and mutation testing found, each with the
+    //! input that exposed it.
+    #![allow(clippy::float_cmp)]
+    use fourforce::beamline::{BeamLine, Element};
+    use fourforce::transfer::{Envelope, TransferMap, Twiss};
+    use fourforce::{Error, Motion, Species};
+
+    /// Found by the `transfer` fuzz target: `Twiss::try_new(1.9e-306, 2.7e20)` (f64) was accepted
+    /// and its `gamma()` = (1 + α²)/β was infinite. Now refused with `Overflow`.
+    #[test]
+    fn twiss_whose_gamma_does_not_fit_is_refused() {
+        assert_eq!(
+            Twiss::try_new(1.923_298_555_634_927e-306_f64, 2.683_425_495_865_023_5e20),
+            Err(Error::Overflow)
+        );
+        assert_eq!(Twiss::try_new(1.0e-40_f32, 0.0), Err(Error::Overflow));
+        let t = Twiss::try_new(1.0e-30_f32, 0.0).unwrap();
+        assert!(t.gamma().is_finite());
+    }
+
+    /// Found by the `transfer` fuzz target: a gap that takes an f32 proton from a subnormal
+    /// kinetic energy (1e-40 eV) to 1 MeV gave a map with `R66 = v₀p₀/(v₁p₁) = 0` (underflow): a
+    /// singular map, and envelopes divided by it. Now refused with `Overflow`.
+    #[test]
+    fn gap_whose_delta_factor_underflows_is_refused() {
+        let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 1.0e-40).unwrap();
+        assert_eq!(TransferMap::try_gap(&p, 1.0e6).err(), Some(Error::Overflow));
+        let gap = Element::AcceleratingGap { voltage_v: 1.0e6 };
+        assert_eq!(gap.try_map(&p).err(), Some(Error::Overflow));
+    }
+
+    /// Found by the `transfer` fuzz target: each gap's `R66` fits, their product over a line does
+    /// not (f32 proton from 1e-36 eV through five gaps, each factor about 1e-10): the line's map
+    /// had `R66 = 0`. Now `try_map` refuses it with `Overflow`.
+    #[test]
+    fn line_whose_gaps_product_underflows_is_refused() {
+        let p = Motion::try_from_kinetic_energy(Species::<f32>::PROTON, 1.0e-36).unwrap();
+        let gaps = [1.0e-26_f32, 1.0e-16, 1.0e-6, 1.0e4, 1.0e14]
+            .map(|v| Element::AcceleratingGap { voltage_v: v });
+        let line = BeamLine::<f32, 6>::try_from_elements(&gaps).unwrap();
+        let mut r = p;
+        for g in &gaps {
+            let (m, after) = g.try_map(&r).unwrap();
+            assert!(m.to_array()[5][5] > 0.0, "{g:?}");
+            r = after;
+        }
+        assert_eq!(line.try_map(&p).err(), Some(Error::Overflow));
+    }
+
+    /// Found by the `transfer` fuzz target: four gaps of nearly no voltage (the last 6.25e-10 V)
+    /// at a 4 MeV proton (f64) gave a map with `R12 = 0` and a trace that rounded just below 2;
+    /// `try_periodic` then built `β = R12/sin μ = 0` and was refused with the undocumented
+    /// `NonPositiveLength`. `R12 = 0` with `det = 1` means `|trace| ≥ 2`: now `Unstable`.
+    #[test]
+    fn periodic_cell_with_no_r12_is_unstable() {
+        let p = Motion::try_from_kinetic_energy(Species::<f64>::PROTON, 4.0e6).unwrap();
+        let gaps = [
+            3.45317e-319_f64,
+            -3.186_953_085_783_205_6e-219,
+            1.840_992_343_711_475_3e-245,
+            6.25e-10,
+        ]
+        .map(|v| Element::AcceleratingGap { voltage_v: v });
+        let line = BeamLine::<f64, 4>::try_from_elements(&gaps).unwrap();
+        let (m, _) = line.try_map(&p).unwrap();
+        let a = m.to_array();
+        assert_eq!(a[0][1], 0.0);
+        assert_eq!(m.try_periodic().err(), Some(Error::Unstable));
+    }
+
+    /// Found writing the `transfer` fuzz target: an envelope whose moments fit but whose size
+    /// `√(Σ₁₁ + (D σ_δ)²)` does not (f64, D = 1e300 m, σ_δ = 1e10) had `size_x() = ∞`, and one
+    /// whose `Σ₁₁Σ₂₂` does not (β = 1e300 m, α = 1e150, ε = 1e8) read `emittance_x() = 0`
+    /// (∞ − ∞ = NaN, clamped). Now both are refused with `Overflow`.
+    #[test]
+    fn envelope_whose_size_or_emittance_does_not_fit_is_refused() {
+        let waist = Twiss::try_new(1.0_f64, 0.0).unwrap();
+        assert_eq!(
+            Envelope::try_new(waist, waist, [1.0e300, 0.0, 0.0, 0.0], 1.0, 1.0, 1.0e10),
+            Err(Error::Overflow)
+        );
+        let long = Twiss::try_new(1.0e300_f64, 1.0e150).unwrap();
+        assert_eq!(
+            Envelope::try_new(long, waist, [0.0; 4], 1.0e8, 1.0, 0.0),
+            Err(Error::Overflow)
+        );
+    }
+}

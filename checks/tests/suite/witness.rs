@@ -938,3 +938,56 @@ fn f32_against_f64() {
     println!("witness f32 against f64: T {wt:.2} eps, sigma_T {ws:.2} eps");
     assert!(wt <= T_BOUND && ws <= SIGMA_BOUND);
 }
+
+mod regressions {
+    //! Regressions: bugs that fuzzing, the f32 sweep and mutation testing found, each with the
+    //! input that exposed it.
+    #![allow(clippy::float_cmp)]
+    use fourforce::witness::{Alpha, Reading, Watch};
+    use fourforce::{Real, Species};
+
+    fn watch<T: Real>(readings: &[(T, T)]) -> Watch<T, 4> {
+        let mut w = Watch::new();
+        for &(kinetic_ev, sigma_ev) in readings {
+            w.try_push(Reading::Kinetic {
+                kinetic_ev,
+                sigma_ev,
+            })
+            .unwrap();
+        }
+        w
+    }
+
+    /// Found by the `witness` fuzz target: three readbacks (f64) 8.9e-309 ± 7.7e-318 eV,
+    /// 9.4e233 ± 1.9e7 eV and 2.35 ± 13.3 eV gave `χ² = ∞`. Now the largest finite value: the
+    /// set is inconsistent at every level.
+    #[test]
+    fn chi_squared_beyond_the_range_is_the_largest_finite_value() {
+        let w = watch(&[
+            (8.947_088_345_659_79e-309_f64, 7.672_326e-318),
+            (9.439_324_952_438_27e233, 18_750_000.0),
+            (2.354_632_486_941_659_5, 13.328_022_799_179_488),
+        ]);
+        let a = w.try_assess(Species::PROTON, Alpha::default()).unwrap();
+        assert_eq!(a.chi_squared(), f64::MAX);
+        assert!(!a.is_consistent());
+        assert!(a.fused().kinetic_energy().is_finite());
+    }
+
+    /// Found with the `witness` fuzz target's finding above: the weighted sum of the differences
+    /// from the most precise witness overflowed for readbacks near the largest energy (0, 1.5e308
+    /// and 1.5e308 eV, all ± 1 eV: Σ w d = 3e308), and the fused energy was infinite. Now the
+    /// sum runs on d/16 and the fused energy is their mean, 1e308.
+    #[test]
+    fn fused_energy_of_readings_near_the_largest_energy_is_finite() {
+        let w = watch(&[(0.0_f64, 1.0), (1.5e308, 1.0), (1.5e308, 1.0)]);
+        let a = w.try_assess(Species::PROTON, Alpha::default()).unwrap();
+        let t = a.fused().kinetic_energy();
+        assert!((t / 1.0e308 - 1.0).abs() < 4.0 * f64::EPSILON, "{t}");
+        assert_eq!(a.chi_squared(), f64::MAX);
+        let w = watch(&[(0.0_f32, 1.0), (3.0e38, 1.0), (3.0e38, 1.0), (3.0e38, 1.0)]);
+        let a = w.try_assess(Species::PROTON, Alpha::default()).unwrap();
+        let t = a.fused().kinetic_energy();
+        assert!((t / 2.25e38 - 1.0).abs() < 4.0 * f32::EPSILON, "{t}");
+    }
+}
