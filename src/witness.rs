@@ -34,9 +34,10 @@
 //! `w_i = (σ_0/σ_i)² ≤ 1`, differences `d_i = T_i − T_0` (exact when the witnesses agree within a
 //! factor of two), `T̂ = T_0 + Σ w_i d_i / Σ w_i`, `σ_T̂ = σ_0/√(Σ w_i)`,
 //! `χ² = Σ ((d_i − (T̂ − T_0))/σ_i)²`. Nothing large is subtracted, no weight can overflow or
-//! underflow, and `f32` keeps the fused energy as accurate as the witnesses themselves. The sum
-//! `Σ w_i d_i` runs on `d_i/16` (exact), so that it cannot overflow; a `χ²` beyond the range of
-//! the precision is given as its largest finite value.
+//! underflow, and `f32` keeps the fused energy as accurate as the witnesses themselves. Where
+//! `Σ w_i d_i` overflows (differences near the largest finite energy) it is summed again on
+//! `d_i/16` (exact); a `χ²` beyond the range of the precision is given as its largest finite
+//! value.
 //!
 //! # Consistency
 //! The witnesses are inconsistent when the upper-tail probability of `χ²` with `n − 1` degrees of
@@ -725,32 +726,44 @@ fn fuse<T: Real>(estimates: &[Estimate<T>], skip: Option<usize>) -> Option<(Esti
         _ => Some(e),
     })?;
     let (t0, s0) = (reference.kinetic, reference.sigma);
-    // The moment sums differences scaled by 2⁻⁴ (exact), so that 16 differences near the
-    // largest finite energy cannot overflow it.
-    let sixteenth = T::from_f64(0.0625);
     let mut weights = T::ZERO;
     let mut moment = T::ZERO;
     for e in kept() {
         let r = s0 / e.sigma;
         let w = r * r;
         weights += w;
-        moment += w * ((e.kinetic - t0) * sixteenth);
+        moment += w * (e.kinetic - t0);
     }
-    let shift = moment / weights * T::from_f64(16.0);
+    let mut shift = moment / weights;
+    if !(moment.abs() <= T::MAX) {
+        // differences near the largest finite energy overflowed the sum: again on d/16 (exact)
+        let sixteenth = T::from_f64(0.0625);
+        moment = T::ZERO;
+        for e in kept() {
+            let r = s0 / e.sigma;
+            moment += r * r * ((e.kinetic - t0) * sixteenth);
+        }
+        shift = moment / weights * T::from_f64(16.0);
+    }
     let mut chi_squared = T::ZERO;
     for e in kept() {
         let z = ((e.kinetic - t0) - shift) / e.sigma;
         chi_squared += z * z;
     }
+    // witnesses so far apart that χ² does not fit: the largest finite value (inconsistent at
+    // every level); a comparison, not `min`, which is a call on the chip
+    if chi_squared > T::MAX {
+        chi_squared = T::MAX;
+    }
+    // T₀ + shift lies between the smallest and largest T_i: the weight of T₀ is 1 ≥ 1/16 of
+    // the total, so the shift stays below the differences by more than its rounding
+    let kinetic = t0 + shift;
     Some((
         Estimate {
-            // a mean of energies in [0, MAX]: the bounds only catch a rounding past them
-            kinetic: (t0 + shift).min(T::MAX).max(T::ZERO),
+            kinetic,
             sigma: s0 / weights.sqrt(),
         },
-        // witnesses so far apart that χ² does not fit: the largest finite value (inconsistent
-        // at every level)
-        chi_squared.min(T::MAX),
+        chi_squared,
     ))
 }
 
