@@ -735,7 +735,7 @@ fn fuse<T: Real>(estimates: &[Estimate<T>], skip: Option<usize>) -> Option<(Esti
         moment += w * (e.kinetic - t0);
     }
     let mut shift = moment / weights;
-    if !(moment.abs() <= T::MAX) {
+    if !moment.is_finite() {
         // differences near the largest finite energy overflowed the sum: again on d/16 (exact)
         let sixteenth = T::from_f64(0.0625);
         moment = T::ZERO;
