@@ -48,15 +48,17 @@
 //! none of them is held at its rate in that pass. The [`Outcome`] says which limits acted.
 //!
 //! # Failed monitors
-//! A reading that is not finite, lies outside the monitor's range, or is stuck (exactly the same
-//! value in `N` consecutive iterations while correctors that move it changed in each of them: a
-//! run-length count per reading, a compare and an add per iteration, where a moving window with
-//! its spread cost the chip 17 times as much) removes the monitor from the next solve and the
-//! decomposition is computed again; [`Outcome::monitor_in_use`] reports the set. A dropped
-//! monitor stays out until [`Orbit::restore_monitor`]. When the monitors left cannot determine
-//! the correctors (fewer independent readings than correctors in a plane: singular values at the
-//! rounding level `16 ε √rows σ_max`), the step is [`State::Hold`]: no corrector moves, never a
-//! wild correction. (The cutoff only truncates the solution; it never makes a plane hold.)
+//! A reading that is not finite, lies outside the monitor's range, or is stuck removes the
+//! monitor from the next solve and the decomposition is computed again. Stuck: exactly the same
+//! value in `N` consecutive iterations although the steps of the correctors between them should
+//! have changed it by more than the monitor's resolution `δ_i`, `|Σ_j R_ij Σ_k Δs_j(k)| > δ_i`
+//! over those `N − 1` steps (a run-length count per reading, a compare and an add per iteration,
+//! plus the steps kept in a ring; the sum only for a repeated reading, which is rare). A settled
+//! loop whose correctors creep along a mode that hardly changes any reading keeps its monitors.
+//! [`Outcome::monitor_in_use`] reports the set. A dropped monitor stays out until
+//! [`Orbit::restore_monitor`]. When the monitors left cannot determine the correctors (fewer
+//! independent readings than correctors in a plane: singular values at the rounding level
+//! `16 ε √rows σ_max`), the step is [`State::Hold`]: no corrector moves, never a wild correction. (The cutoff only truncates the solution; it never makes a plane hold.)
 //!
 //! # Energy
 //! A new beam energy changes every `κ_j` and, through the focusing, `R`. [`Orbit::try_set_response`]
@@ -77,7 +79,7 @@
 //! per_kick[0][0][1] = 2.0;
 //! per_kick[1][1][1] = 3.0;
 //! let response = Response::try_new(per_kick, [0.5, 0.5])?; // rad per T m (Bρ = 2 T m)
-//! let monitor = Monitor::try_new(0.01, 1.0)?;
+//! let monitor = Monitor::try_new(0.01, 1.0e-6, 1.0)?; // 10 mm range, 1 µm resolution
 //! let corrector = Corrector::try_new(-0.01, 0.01, 0.01)?;
 //! let tuning = Tuning::try_new(1.0, 0.0, 1.0e-6)?;
 //! let mut orbit = Orbit::<f64, 2, 2>::try_new(response, [monitor; 2], [corrector; 2], tuning)?;
@@ -535,44 +537,53 @@ enum Plane {
     Both,
 }
 
-/// One position monitor: the range of a trustworthy reading and its weight in the correction.
+/// One position monitor: the range of a trustworthy reading, its resolution and its weight in the
+/// correction.
 ///
 /// # Examples
 /// ```
 /// use fourforce::orbit::Monitor;
-/// let m = Monitor::try_new(5.0e-3_f32, 1.0)?;
-/// assert_eq!((m.range(), m.weight()), (5.0e-3, 1.0));
+/// let m = Monitor::try_new(5.0e-3_f32, 1.0e-6, 1.0)?;
+/// assert_eq!((m.range(), m.resolution(), m.weight()), (5.0e-3, 1.0e-6, 1.0));
 /// # Ok::<(), fourforce::Error>(())
 /// ```
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Monitor<T: Real> {
     range_m: T,
+    resolution_m: T,
     weight: T,
 }
 
 impl<T: Real> Monitor<T> {
-    /// A monitor whose readings `|x|, |y| ≤ range_m` (m) are trusted, weighted by `weight` (1/m or
-    /// dimensionless, the same for all monitors of a loop; 0 leaves the monitor out of the
-    /// correction).
+    /// A monitor whose readings `|x|, |y| ≤ range_m` (m) are trusted, that reports a change of a
+    /// reading of `resolution_m` (m) or more (the smallest change it resolves: a reading that
+    /// stays the same while the correctors should have moved it by more is stuck), weighted by
+    /// `weight` (1/m or dimensionless, the same for all monitors of a loop; 0 leaves the monitor
+    /// out of the correction).
     ///
     /// # Errors
-    /// [`Error::NonFinite`]; [`Error::NonPositiveLength`] for a range that is not positive;
-    /// [`Error::NegativeMagnitude`] for a negative weight.
+    /// [`Error::NonFinite`]; [`Error::NonPositiveLength`] for a range or a resolution that is not
+    /// positive; [`Error::NegativeMagnitude`] for a negative weight.
     ///
     /// # Examples
     /// ```
     /// use fourforce::{Error, orbit::Monitor};
-    /// assert_eq!(Monitor::try_new(0.0_f64, 1.0), Err(Error::NonPositiveLength));
+    /// assert_eq!(Monitor::try_new(0.0_f64, 1.0e-6, 1.0), Err(Error::NonPositiveLength));
+    /// assert_eq!(Monitor::try_new(1.0e-2_f64, 0.0, 1.0), Err(Error::NonPositiveLength));
     /// ```
-    pub fn try_new(range_m: T, weight: T) -> Result<Self, Error> {
-        if try_finite(range_m)? <= T::ZERO {
+    pub fn try_new(range_m: T, resolution_m: T, weight: T) -> Result<Self, Error> {
+        if try_finite(range_m)? <= T::ZERO || try_finite(resolution_m)? <= T::ZERO {
             return Err(Error::NonPositiveLength);
         }
         if try_finite(weight)? < T::ZERO {
             return Err(Error::NegativeMagnitude);
         }
-        Ok(Self { range_m, weight })
+        Ok(Self {
+            range_m,
+            resolution_m,
+            weight,
+        })
     }
 
     /// The largest trusted `|reading|` in m.
@@ -580,7 +591,7 @@ impl<T: Real> Monitor<T> {
     /// # Examples
     /// ```
     /// use fourforce::orbit::Monitor;
-    /// assert_eq!(Monitor::try_new(2.0e-3_f64, 1.0)?.range(), 2.0e-3);
+    /// assert_eq!(Monitor::try_new(2.0e-3_f64, 1.0e-6, 1.0)?.range(), 2.0e-3);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
@@ -588,12 +599,25 @@ impl<T: Real> Monitor<T> {
         self.range_m
     }
 
+    /// The smallest change of a reading the monitor reports, in m.
+    ///
+    /// # Examples
+    /// ```
+    /// use fourforce::orbit::Monitor;
+    /// assert_eq!(Monitor::try_new(2.0e-3_f64, 1.0e-6, 1.0)?.resolution(), 1.0e-6);
+    /// # Ok::<(), fourforce::Error>(())
+    /// ```
+    #[must_use]
+    pub const fn resolution(&self) -> T {
+        self.resolution_m
+    }
+
     /// The weight of the monitor's readings.
     ///
     /// # Examples
     /// ```
     /// use fourforce::orbit::Monitor;
-    /// assert_eq!(Monitor::try_new(2.0e-3_f64, 0.5)?.weight(), 0.5);
+    /// assert_eq!(Monitor::try_new(2.0e-3_f64, 1.0e-6, 0.5)?.weight(), 0.5);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
     #[must_use]
@@ -812,7 +836,7 @@ pub enum State {
 /// use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
 /// let r = Response::<f64, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
 /// let c = Corrector::try_new(-1.0e-3, 1.0e-3, 1.0)?;
-/// let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+/// let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0e-6, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
 /// let mut s = [0.0];
 /// let out = orbit.try_step(&[[5.0e-3, 0.0]], &mut s)?;
 /// assert!(out.saturated(0) && !out.rate_limited(0) && s[0] == -1.0e-3);
@@ -837,7 +861,7 @@ impl Outcome {
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, State, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
     /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
-    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0e-6, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// let out = orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?;
     /// assert_eq!(out.state(), State::Correcting);
     /// # Ok::<(), fourforce::Error>(())
@@ -854,7 +878,7 @@ impl Outcome {
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
     /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
-    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0e-6, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// let out = orbit.try_step(&[[0.5, 0.0]], &mut [0.0])?;
     /// assert!(!out.saturated(0) && !out.saturated(32));
     /// # Ok::<(), fourforce::Error>(())
@@ -871,7 +895,7 @@ impl Outcome {
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
     /// let c = Corrector::try_new(-1.0, 1.0, 0.1)?;
-    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0e-6, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// let mut s = [0.0];
     /// assert!(orbit.try_step(&[[0.5, 0.0]], &mut s)?.rate_limited(0));
     /// assert_eq!(s, [-0.1]);
@@ -889,7 +913,7 @@ impl Outcome {
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
     /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
-    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0e-6, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// assert!(!orbit.try_step(&[[0.5, 0.0]], &mut [0.0])?.limited());
     /// # Ok::<(), fourforce::Error>(())
     /// ```
@@ -905,7 +929,7 @@ impl Outcome {
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
     /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
-    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0e-6, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// let out = orbit.try_step(&[[f32::NAN, 0.0]], &mut [0.0])?;
     /// assert!(!out.monitor_in_use(0));
     /// # Ok::<(), fourforce::Error>(())
@@ -922,7 +946,7 @@ impl Outcome {
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
     /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
-    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0e-6, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// assert_eq!(orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?.monitors_in_use(), 1);
     /// # Ok::<(), fourforce::Error>(())
     /// ```
@@ -939,7 +963,7 @@ impl Outcome {
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
     /// # let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
-    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// # let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(1.0, 1.0e-6, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// assert!(orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?.decomposed());
     /// assert!(!orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?.decomposed());
     /// # Ok::<(), fourforce::Error>(())
@@ -1129,18 +1153,19 @@ impl<T: Real, const M: usize, const C: usize> Gains<T, M, C> {
 }
 
 /// The steering loop of a line with `M` monitors (each reading x and y) and `C` correctors
-/// (`M, C ≤ 32`), keeping `N` readings per monitor and plane to recognise a stuck one.
+/// (`M, C ≤ 32`), keeping `N` readings per monitor and plane to recognise a stuck one (and the
+/// correctors' steps between them).
 ///
 /// Holds the response, the limits, the state of the monitors and the decompositions; no heap.
-/// Its size is about `(5 · 2M · C + C²) · size_of::<T>()` plus the windows: place it in a
-/// `static` on a small stack.
+/// Its size is about `(5 · 2M · C + C² + N · C) · size_of::<T>()` plus the run counts: place it
+/// in a `static` on a small stack.
 ///
 /// # Examples
 /// ```
 /// use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
 /// let r = Response::<f32, 1, 1>::try_new([[[4.0], [0.0]]], [0.5])?;
 /// let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
-/// let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(0.1, 1.0)?], [c], Tuning::try_new(0.5, 0.0, 0.0)?)?;
+/// let mut orbit = Orbit::<_, 1, 1>::try_new(r, [Monitor::try_new(0.1, 1.0e-6, 1.0)?], [c], Tuning::try_new(0.5, 0.0, 0.0)?)?;
 /// let mut s = [0.0];
 /// orbit.try_step(&[[2.0e-3, 0.0]], &mut s)?;
 /// assert_eq!(s, [-0.5e-3]); // half of the 1 mT m that cancels 2 mm at 2 m per T m
@@ -1158,13 +1183,11 @@ pub struct Orbit<T: Real, const M: usize, const C: usize, const N: usize = 4> {
     /// The last reading of (p, i), and how many consecutive iterations it has been the same.
     last: [[T; 2]; M],
     runs: [[u16; 2]; M],
-    /// The correctors that changed in each of the last iterations (bit j), a ring of `N`, and how
-    /// many iterations it holds.
-    recent: [u32; N],
+    /// The steps of the correctors in each of the last `N − 1` iterations (T m or V), a ring,
+    /// and how many iterations it holds.
+    recent: [[T; C]; N],
     recent_next: usize,
     recent_len: usize,
-    /// Correctors that move reading (p, i) (bit j).
-    reach: [[u32; 2]; M],
     full: Gains<T, M, C>,
     restricted: Gains<T, M, C>,
     work: [Column<T, M>; C],
@@ -1197,7 +1220,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// static mut UNUSED: Orbit<f32, 8, 12> = Orbit::new();
     /// let mut orbit = Orbit::<f64, 1, 1>::new();
     /// assert_eq!(orbit.try_step(&[[0.0, 0.0]], &mut [0.0]), Err(Error::Empty));
-    /// orbit.try_configure([Monitor::try_new(1.0, 1.0)?], [Corrector::try_new(-1.0, 1.0, 1.0)?], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// orbit.try_configure([Monitor::try_new(1.0, 1.0e-6, 1.0)?], [Corrector::try_new(-1.0, 1.0, 1.0)?], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// orbit.try_set_response(&Response::try_new([[[1.0], [0.0]]], [1.0])?, &mut [0.0])?;
     /// assert!(orbit.try_step(&[[0.0, 0.0]], &mut [0.0]).is_ok());
     /// # Ok::<(), fourforce::Error>(())
@@ -1208,6 +1231,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             response: Response::ZERO,
             monitors: [Monitor {
                 range_m: T::ZERO,
+                resolution_m: T::ZERO,
                 weight: T::ZERO,
             }; M],
             correctors: [Corrector {
@@ -1224,10 +1248,9 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             in_use: 0,
             last: [[T::ZERO; 2]; M],
             runs: [[0; 2]; M],
-            recent: [0; N],
+            recent: [[T::ZERO; C]; N],
             recent_next: 0,
             recent_len: 0,
-            reach: [[0; 2]; M],
             full: Gains::STALE,
             restricted: Gains::STALE,
             work: [Column([[T::ZERO; M]; 2]); C],
@@ -1249,7 +1272,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// ```
     /// use fourforce::{Error, orbit::{Corrector, Monitor, Orbit, Tuning}};
     /// let mut orbit = Orbit::<f32, 1, 1, 1>::new(); // N = 1 cannot see a stuck value
-    /// let (m, c, t) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?, Tuning::try_new(1.0, 0.0, 0.0)?);
+    /// let (m, c, t) = (Monitor::try_new(1.0, 1.0e-6, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?, Tuning::try_new(1.0, 0.0, 0.0)?);
     /// assert_eq!(orbit.try_configure([m], [c], t), Err(Error::CapacityFull));
     /// # Ok::<(), fourforce::Error>(())
     /// ```
@@ -1286,7 +1309,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// ```
     /// use fourforce::{Error, orbit::{Corrector, Monitor, Orbit, Response, Tuning}};
     /// let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
-    /// let (m, c, t) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?, Tuning::try_new(1.0, 0.0, 0.0)?);
+    /// let (m, c, t) = (Monitor::try_new(1.0, 1.0e-6, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?, Tuning::try_new(1.0, 0.0, 0.0)?);
     /// assert!(Orbit::<f32, 1, 1, 1>::try_new(r, [m], [c], t).is_err()); // N = 1 cannot see a stuck value
     /// # Ok::<(), fourforce::Error>(())
     /// ```
@@ -1316,7 +1339,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// ```
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
-    /// # let (m, c, t) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?, Tuning::try_new(1.0, 0.0, 0.0)?);
+    /// # let (m, c, t) = (Monitor::try_new(1.0, 1.0e-6, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?, Tuning::try_new(1.0, 0.0, 0.0)?);
     /// let orbit = Orbit::<f32, 1, 1>::try_new(r, [m], [c], t)?;
     /// assert_eq!(orbit.response(), &r);
     /// # Ok::<(), fourforce::Error>(())
@@ -1332,7 +1355,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// ```
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
-    /// # let (m, c) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
+    /// # let (m, c) = (Monitor::try_new(1.0, 1.0e-6, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
     /// let t = Tuning::try_new(0.3, 0.0, 0.0)?;
     /// let orbit = Orbit::<f32, 1, 1>::try_new(r, [m], [c], t)?;
     /// assert_eq!(orbit.tuning().gain(), 0.3);
@@ -1350,7 +1373,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// ```
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
-    /// # let (m, c) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
+    /// # let (m, c) = (Monitor::try_new(1.0, 1.0e-6, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
     /// # let mut orbit = Orbit::<f32, 1, 1>::try_new(r, [m], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// orbit.try_step(&[[0.0, 0.0]], &mut [0.0])?;
     /// orbit.set_tuning(Tuning::try_new(0.5, 0.0, 0.0)?);
@@ -1372,7 +1395,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// ```
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
-    /// # let (m, c) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
+    /// # let (m, c) = (Monitor::try_new(1.0, 1.0e-6, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
     /// # let mut orbit = Orbit::<f32, 1, 1>::try_new(r, [m], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// assert!(orbit.monitor_in_use(0));
     /// orbit.try_step(&[[2.0, 0.0]], &mut [0.0])?; // 2 m is outside the monitor's 1 m range
@@ -1391,7 +1414,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// ```
     /// # use fourforce::orbit::{Corrector, Monitor, Orbit, Response, Tuning};
     /// # let r = Response::<f32, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
-    /// # let (m, c) = (Monitor::try_new(1.0, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
+    /// # let (m, c) = (Monitor::try_new(1.0, 1.0e-6, 1.0)?, Corrector::try_new(-1.0, 1.0, 1.0)?);
     /// # let mut orbit = Orbit::<f32, 1, 1>::try_new(r, [m], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// orbit.try_step(&[[f32::INFINITY, 0.0]], &mut [0.0])?;
     /// orbit.restore_monitor(0);
@@ -1424,7 +1447,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// let at_1 = Response::<f64, 1, 1>::try_new([[[1.0], [0.0]]], [1.0])?;
     /// let at_2 = Response::<f64, 1, 1>::try_new([[[1.0], [0.0]]], [0.5])?; // Bρ doubled
     /// let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
-    /// let mut orbit = Orbit::<f64, 1, 1>::try_new(at_1, [Monitor::try_new(1.0, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// let mut orbit = Orbit::<f64, 1, 1>::try_new(at_1, [Monitor::try_new(1.0, 1.0e-6, 1.0)?], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// let mut s = [0.3];
     /// assert_eq!(orbit.try_set_response(&at_2, &mut s)?, 0);
     /// assert_eq!(s, [0.6]);
@@ -1468,7 +1491,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// use fourforce::transfer::TransferMap;
     /// use fourforce::{Motion, Species};
     /// let mut orbit = Orbit::<f64, 1, 1>::new();
-    /// orbit.try_configure([Monitor::try_new(0.01, 1.0)?], [Corrector::try_new(-0.01, 0.01, 0.01)?], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// orbit.try_configure([Monitor::try_new(0.01, 1.0e-6, 1.0)?], [Corrector::try_new(-0.01, 0.01, 0.01)?], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// let line = |p: Motion<f64>| -> Result<_, fourforce::Error> {
     ///     Ok([
     ///         (TransferMap::IDENTITY, Place::Corrector { index: 0, kick: Kick::Magnetic, direction: KickDirection::Horizontal, motion: p }),
@@ -1519,7 +1542,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     ///     Element::Monitor { id: 1 },
     /// ])?;
     /// let mut orbit = Orbit::<f32, 1, 1>::new();
-    /// orbit.try_configure([Monitor::try_new(0.01, 1.0)?], [Corrector::try_new(-0.01, 0.01, 0.01)?], Tuning::try_new(1.0, 0.0, 0.0)?)?;
+    /// orbit.try_configure([Monitor::try_new(0.01, 1.0e-6, 1.0)?], [Corrector::try_new(-0.01, 0.01, 0.01)?], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// let p = Motion::try_from_kinetic_energy(Species::PROTON, 10.0e6)?;
     /// let mut s = [0.0];
     /// orbit.try_set_line(&line, &p, &mut s)?;
@@ -1587,8 +1610,9 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         Ok((next, held))
     }
 
-    /// Takes the loaded response into use: `1/κ`, the reach of each corrector, and a new
-    /// decomposition unless the optics (the response in kick angles) are the same.
+    /// Takes the loaded response into use: `1/κ`, the steps kept for the stuck rule forgotten
+    /// (they were taken at the old `κ`), and a new decomposition unless the optics (the response
+    /// in kick angles) are the same.
     fn loaded_with(
         &mut self,
         (next, held): ([T; C], u32),
@@ -1597,6 +1621,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     ) -> u32 {
         *settings = next;
         self.loaded = true;
+        self.recent_len = 0;
         for (inverse, kappa) in self
             .setting_per_kick
             .iter_mut()
@@ -1605,7 +1630,6 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             *inverse = T::ONE / *kappa;
         }
         if !same_optics {
-            self.set_reach();
             self.invalidate();
         }
         held
@@ -1629,7 +1653,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
     /// // One plane, two monitors, one corrector: least squares over both readings.
     /// let r = Response::<f64, 2, 1>::try_new([[[1.0, 3.0], [0.0; 2]]], [1.0])?;
     /// let c = Corrector::try_new(-1.0, 1.0, 1.0)?;
-    /// let m = Monitor::try_new(1.0, 1.0)?;
+    /// let m = Monitor::try_new(1.0, 1.0e-6, 1.0)?;
     /// let mut orbit = Orbit::<f64, 2, 1>::try_new(r, [m; 2], [c], Tuning::try_new(1.0, 0.0, 0.0)?)?;
     /// let mut s = [0.0];
     /// orbit.try_step(&[[1.0e-3, 0.0], [1.0e-3, 0.0]], &mut s)?;
@@ -1673,15 +1697,14 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
                 try_finite(*x)?;
             }
             outcome.state = hold;
-            self.record_moves(0);
+            self.record_steps(&[T::ZERO; C]);
             return Ok(outcome);
         }
         let g = self.tuning.gain;
         let mut step = [T::ZERO; C];
         apply_gains(&self.full, &b, g, &self.setting_per_kick, &mut step);
         let mut next = *settings;
-        let mut moved = 0_u32;
-        let mut held = self.limit(settings, &mut step, &mut outcome, 0, &mut next, &mut moved)?;
+        let mut held = self.limit(settings, &mut step, &mut outcome, 0, &mut next)?;
         let mut newly = held;
         for _ in 0..C {
             if newly == 0 {
@@ -1724,18 +1747,11 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
                     *ds = fs;
                 }
             }
-            newly = self.limit(
-                settings,
-                &mut step,
-                &mut outcome,
-                held,
-                &mut next,
-                &mut moved,
-            )?;
+            newly = self.limit(settings, &mut step, &mut outcome, held, &mut next)?;
             held |= newly;
         }
         *settings = next;
-        self.record_moves(moved);
+        self.record_steps(&step);
         Ok(outcome)
     }
 
@@ -1750,11 +1766,8 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         outcome: &mut Outcome,
         held: u32,
         next: &mut [T; C],
-        moved: &mut u32,
     ) -> Result<u32, Error> {
         let (mut newly, mut saturated) = (0_u32, 0_u32);
-        // The moved mask in a register, written once.
-        let mut moved_now = *moved;
         for (j, (((ds, s), c), n)) in step
             .iter_mut()
             .zip(settings)
@@ -1770,9 +1783,6 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             // The common case: within the rate and the range (false for a non-finite setting).
             if wanted.abs() <= c.max_step && candidate >= c.min && candidate <= c.max {
                 *n = candidate;
-                if candidate != *s {
-                    moved_now |= 1 << j;
-                }
                 continue;
             }
             let s = clamp(try_finite(*s)?, c.min, c.max);
@@ -1790,13 +1800,7 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
                 }
             }
             *n = clamp(s + clipped, c.min, c.max);
-            if *n != s {
-                moved_now |= 1 << j;
-            } else {
-                moved_now &= !(1 << j);
-            }
         }
-        *moved = moved_now;
         // The end stops first: while a corrector saturates, the steps of the others are those
         // of a solution that moves it beyond its range, not theirs to take; clipped to the rate
         // and held, they would enter the held set for a step they never wanted (the next pass
@@ -1849,17 +1853,42 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
                 suspects |= 1 << i;
             }
         }
-        // A repeated reading is stuck only if correctors that move it changed in each of the
-        // last N − 1 iterations (rare: checked only for the suspects).
+        // A repeated reading is stuck only if the steps of the last N − 1 iterations should have
+        // changed it by more than the monitor resolves (rare: computed only for the suspects).
         let window = N.saturating_sub(1);
         suspects &= self.in_use;
         if suspects != 0 && self.recent_len >= window {
-            for (i, (run, reach)) in self.runs.iter().zip(self.reach.iter()).enumerate() {
+            // the kick of each corrector over the window (rad)
+            let mut kick = [T::ZERO; C];
+            for steps in self.recent.iter().take(window) {
+                for (t, ds) in kick.iter_mut().zip(steps) {
+                    *t += *ds;
+                }
+            }
+            for (t, k) in kick.iter_mut().zip(&self.response.kick_per_setting) {
+                *t *= *k;
+            }
+            for (i, (run, monitor)) in self.runs.iter().zip(&self.monitors).enumerate() {
                 if !bit(suspects, i) {
                     continue;
                 }
-                for (r, reach) in run.iter().zip(reach) {
-                    if *r >= n && self.recent.iter().take(window).all(|m| m & reach != 0) {
+                for (p, r) in run.iter().enumerate() {
+                    if *r < n {
+                        continue;
+                    }
+                    let predicted =
+                        kick.iter()
+                            .zip(&self.response.per_kick)
+                            .fold(T::ZERO, |a, (t, column)| {
+                                a + *t
+                                    * column
+                                        .get(p)
+                                        .and_then(|c| c.get(i))
+                                        .copied()
+                                        .unwrap_or(T::ZERO)
+                            });
+                    // false for NaN: an unknown change does not condemn a monitor
+                    if predicted.abs() > monitor.resolution_m {
                         failed |= 1 << i;
                     }
                 }
@@ -1883,10 +1912,10 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
         b
     }
 
-    /// Remembers which correctors changed in this iteration (the last `N − 1` are kept).
-    fn record_moves(&mut self, moved: u32) {
+    /// Remembers the steps of this iteration (the last `N − 1` are kept).
+    fn record_steps(&mut self, step: &[T; C]) {
         if let Some(slot) = self.recent.get_mut(self.recent_next) {
-            *slot = moved;
+            *slot = *step;
         }
         let window = N.saturating_sub(1);
         self.recent_next = if self.recent_next + 1 >= window {
@@ -1895,22 +1924,6 @@ impl<T: Real, const M: usize, const C: usize, const N: usize> Orbit<T, M, C, N> 
             self.recent_next + 1
         };
         self.recent_len = (self.recent_len + 1).min(window);
-    }
-
-    fn set_reach(&mut self) {
-        let mut reach = [[0_u32; 2]; M];
-        for (j, column) in self.response.per_kick.iter().enumerate() {
-            for (p, plane) in column.iter().enumerate() {
-                for (masks, r) in reach.iter_mut().zip(plane) {
-                    if *r != T::ZERO {
-                        if let Some(m) = masks.get_mut(p) {
-                            *m |= 1 << j;
-                        }
-                    }
-                }
-            }
-        }
-        self.reach = reach;
     }
 
     fn invalidate(&mut self) {

@@ -379,7 +379,7 @@ fn orbit_group<T: Real>(c: &mut Criterion, name: &str) {
         }
     }
     let response = Response::try_new(per_kick, [t(0.8); 12]).unwrap();
-    let monitor = Monitor::try_new(t(0.01), T::ONE).unwrap();
+    let monitor = Monitor::try_new(t(0.01), t(1.0e-6), T::ONE).unwrap();
     let corrector = Corrector::try_new(t(-4e-3), t(4e-3), t(1e-3)).unwrap();
     let tuning = Tuning::try_new(t(0.5), t(0.05), t(1e-3)).unwrap();
     let mut orbit =

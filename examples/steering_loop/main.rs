@@ -282,7 +282,7 @@ fn run() -> Result<ExitCode, Error> {
         rms(&last.true_orbit) * 1e6
     );
     println!(
-        "  monitor M{STUCK_MONITOR} frozen at {SHIFT_AT}, dropped at {} (stuck while its correctors moved); {} of {MONITORS} monitors in use at the end",
+        "  monitor M{STUCK_MONITOR} frozen at {SHIFT_AT}, dropped at {} (stuck: its correctors should have moved it by more than it resolves); {} of {MONITORS} monitors in use at the end",
         dropped_at.map_or("never".to_owned(), |i| i.to_string()),
         last.outcome.monitors_in_use()
     );

@@ -36,7 +36,11 @@ fn run<T: Bits>(input: &mut Input<'_>) {
     let Ok(response) = Response::try_new(per_kick, kappa) else {
         return;
     };
-    let Ok(monitor) = Monitor::try_new(input.real::<T>(), input.real::<T>()) else {
+    let Ok(monitor) = Monitor::try_new(
+        input.real::<T>(),
+        input.real::<T>(),
+        input.real::<T>(),
+    ) else {
         return;
     };
     let (lo, hi, rate) = (input.real::<T>(), input.real::<T>(), input.real::<T>());

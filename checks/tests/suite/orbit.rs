@@ -125,7 +125,7 @@ fn loose_corrector() -> Corrector<f64> {
 
 fn orbit_f64(r: [[[f64; M]; 2]; C], k: [f64; C], tuning: Tuning<f64>) -> Orbit<f64, M, C> {
     let response = Response::try_new(r, k).unwrap();
-    let monitor = Monitor::try_new(1.0, 1.0).unwrap();
+    let monitor = Monitor::try_new(1.0, 1.0e-6, 1.0).unwrap();
     Orbit::try_new(response, [monitor; M], [loose_corrector(); C], tuning).unwrap()
 }
 
@@ -239,7 +239,7 @@ fn f32_step_is_bounded_by_the_condition_number() {
         let k32 = k.map(|x| x as f32);
         let b32 = b.map(|m| m.map(|x| x as f32));
         let response = Response::try_new(r32, k32).unwrap();
-        let monitor = Monitor::try_new(1.0_f32, 1.0).unwrap();
+        let monitor = Monitor::try_new(1.0_f32, 1.0e-6, 1.0).unwrap();
         let corrector = Corrector::try_new(-1.0e3_f32, 1.0e3, 1.0e3).unwrap();
         let mut orbit = Orbit::<f32, M, C>::try_new(
             response,
@@ -332,7 +332,7 @@ fn exactly_solvable_reaches_zero_in_one_step() {
         }
     }
     let response = Response::try_new(r, [0.4; 2 * K]).unwrap();
-    let monitor = Monitor::try_new(1.0, 1.0).unwrap();
+    let monitor = Monitor::try_new(1.0, 1.0e-6, 1.0).unwrap();
     let mut orbit = Orbit::<f64, K, { 2 * K }>::try_new(
         response,
         [monitor; K],
@@ -359,7 +359,7 @@ fn saturated_corrector_is_held_and_the_rest_resolved() {
     let r = random_response(&mut rng, false);
     let k = [0.5; C];
     let response = Response::try_new(r, k).unwrap();
-    let monitor = Monitor::try_new(1.0, 1.0).unwrap();
+    let monitor = Monitor::try_new(1.0, 1.0e-6, 1.0).unwrap();
     let mut correctors = [loose_corrector(); C];
     correctors[1] = Corrector::try_new(-1.0e-6, 1.0e-6, 1.0).unwrap();
     let mut orbit = Orbit::<f64, M, C>::try_new(
@@ -404,7 +404,7 @@ fn rate_limit_acts_and_reports() {
     let mut rng = Rng(5);
     let r = random_response(&mut rng, true);
     let response = Response::try_new(r, [1.0; C]).unwrap();
-    let monitor = Monitor::try_new(1.0, 1.0).unwrap();
+    let monitor = Monitor::try_new(1.0, 1.0e-6, 1.0).unwrap();
     let correctors = [Corrector::try_new(-1.0, 1.0, 1.0e-5).unwrap(); C];
     let mut orbit = Orbit::<f64, M, C>::try_new(
         response,
@@ -712,7 +712,7 @@ fn single_step_is_the_one_by_one_loop() {
         let corrector = Corrector::try_new(-max, max, rate).unwrap();
         let tuning = Tuning::try_new(gain, alpha, 0.0).unwrap();
         let response = Response::<f64, 1, 1>::try_new([[[r], [0.0]]], [kappa]).unwrap();
-        let monitor = Monitor::try_new(1.0, 1.0).unwrap();
+        let monitor = Monitor::try_new(1.0, 1.0e-6, 1.0).unwrap();
         let mut orbit =
             Orbit::<f64, 1, 1>::try_new(response, [monitor], [corrector], tuning).unwrap();
         let mut s = [s0];
@@ -770,8 +770,8 @@ fn decomposition_after_a_failure_matches_a_fresh_one() {
         let out = orbit.try_step(&b2, &mut s).unwrap();
         assert!(out.decomposed() && !out.monitor_in_use(failed));
         let response = Response::try_new(r, k).unwrap();
-        let mut monitors = [Monitor::try_new(1.0, 1.0).unwrap(); M];
-        monitors[failed] = Monitor::try_new(1.0, 0.0).unwrap();
+        let mut monitors = [Monitor::try_new(1.0, 1.0e-6, 1.0).unwrap(); M];
+        monitors[failed] = Monitor::try_new(1.0, 1.0e-6, 0.0).unwrap();
         let mut fresh =
             Orbit::<f64, M, C>::try_new(response, monitors, [loose_corrector(); C], tuning)
                 .unwrap();
@@ -803,7 +803,7 @@ mod line;
 fn known_line_converges_as_theory_says() {
     for &g in &[0.4, 0.7, 1.0] {
         let r64 = line::try_response::<f64>(line::NOMINAL_EV, 1.0).unwrap();
-        let monitor = Monitor::try_new(0.01, 1.0).unwrap();
+        let monitor = Monitor::try_new(0.01, 1.0e-6, 1.0).unwrap();
         let mut orbit = Orbit::<f64, 8, 12>::try_new(
             r64,
             [monitor; 8],
@@ -872,9 +872,6 @@ fn saturated_steady_state_does_not_cycle() {
             (b.as_flattened().iter().fold(T::ZERO, |a, x| a + *x * *x) / T::from_u32(16)).sqrt()
         };
         // settle at constant readings (the frozen monitor is out of use already)
-        // settle at constant readings (the frozen monitor is out of use already); not much
-        // longer: at the rounding level an f32 reading can repeat while correctors still move
-        // by an ulp, which the stuck-monitor check then takes for a stuck monitor
         for _ in 0..settle {
             let b = line::Plant::orbit(&machine, &settings);
             orbit.try_step(&b, &mut settings).unwrap();
@@ -898,4 +895,70 @@ fn saturated_steady_state_does_not_cycle() {
     }
     run::<f32>(10, 1.0e-4);
     run::<f64>(60, 1.0e-9);
+}
+
+/// The settled demo line kept running at the machine's constant readings: the correctors creep
+/// along a mode that hardly changes any reading, so healthy readings repeat exactly while
+/// correctors move by far less than a monitor resolves; no healthy monitor is taken for stuck
+/// and the loop never holds (before the resolution entered the rule, f32 dropped M5 after 26
+/// more iterations and held the y plane after 44, f64 dropped one after 96 and held after 133).
+#[test]
+fn settled_loop_keeps_its_healthy_monitors() {
+    fn run<T: fourforce::Real>() {
+        let mut orbit = Orbit::<T, 8, 12>::new();
+        line::try_setup(&mut orbit).unwrap();
+        let mut machine = line::Machine::<T>::try_new().unwrap();
+        let mut settings = [T::ZERO; 12];
+        let mut frozen = [T::ZERO; 2];
+        line::try_run(
+            &mut orbit,
+            &mut machine,
+            |orbit, readings, s| orbit.try_step(readings, s),
+            |record| {
+                settings = record.settings;
+                frozen = record.readings[line::STUCK_MONITOR];
+            },
+        )
+        .unwrap();
+        assert!(!orbit.monitor_in_use(line::STUCK_MONITOR));
+        for n in 0..200 {
+            let mut b = line::Plant::orbit(&machine, &settings);
+            b[line::STUCK_MONITOR] = frozen;
+            let out = orbit.try_step(&b, &mut settings).unwrap();
+            assert_eq!(out.state(), State::Correcting, "iteration {n}");
+            for i in (0..8).filter(|i| *i != line::STUCK_MONITOR) {
+                assert!(out.monitor_in_use(i), "iteration {n}: M{i} dropped");
+            }
+        }
+    }
+    run::<f32>();
+    run::<f64>();
+}
+
+/// A repeated reading is stuck only when the steps since it began should have moved it by more
+/// than the monitor resolves: the same frozen reading is dropped with a 1 µm resolution and kept
+/// with a 10 mm one (the correctors' steps predict about 1 mm over the window).
+#[test]
+fn stuck_means_more_change_than_the_resolution() {
+    let dropped_at = |resolution: f64| {
+        let r = Response::<f64, 2, 1>::try_new([[[1.0, 1.0], [0.0; 2]]], [1.0]).unwrap();
+        let c = Corrector::try_new(-1.0, 1.0, 1.0).unwrap();
+        let monitors = [
+            Monitor::try_new(1.0, 1.0e-6, 1.0).unwrap(),
+            Monitor::try_new(1.0, resolution, 1.0).unwrap(),
+        ];
+        let t = Tuning::try_new(0.5, 0.0, 0.0).unwrap();
+        let mut orbit = Orbit::<f64, 2, 1>::try_new(r, monitors, [c], t).unwrap();
+        let mut s = [0.0];
+        for n in 0..20 {
+            let b = [[1.0e-3 + s[0], 0.0], [1.0e-3, 0.0]];
+            let out = orbit.try_step(&b, &mut s).unwrap();
+            if !out.monitor_in_use(1) {
+                return Some(n);
+            }
+        }
+        None
+    };
+    assert_eq!(dropped_at(1.0e-6), Some(3));
+    assert_eq!(dropped_at(1.0e-2), None);
 }
