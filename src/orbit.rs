@@ -2341,7 +2341,16 @@ fn interpolate<T: Real>(xs: &[T], ys: &[T], x: T) -> Result<T, Error> {
                 let y = if y.is_finite() {
                     y
                 } else {
-                    let t = (x * T::HALF - *x0 * T::HALF) / (*x1 * T::HALF - *x0 * T::HALF);
+                    // The settings span more than the precision holds (y1 − y0 overflows): the
+                    // fraction of the interval, then a weighted mean. The drives are halved only
+                    // when their own difference overflows (then they are far from subnormal, so
+                    // halving is exact and the denominator stays positive).
+                    let dx = *x1 - *x0;
+                    let t = if dx.is_finite() {
+                        (x - *x0) / dx
+                    } else {
+                        (x * T::HALF - *x0 * T::HALF) / (*x1 * T::HALF - *x0 * T::HALF)
+                    };
                     let t = clamp(t, T::ZERO, T::ONE);
                     *y0 * (T::ONE - t) + *y1 * t
                 };

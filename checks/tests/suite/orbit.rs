@@ -962,3 +962,31 @@ fn stuck_means_more_change_than_the_resolution() {
     assert_eq!(dropped_at(1.0e-6), Some(3));
     assert_eq!(dropped_at(1.0e-2), None);
 }
+
+/// Found by fuzzing (target `orbit`): a table whose settings span more than the precision holds
+/// (their difference overflows) and whose drives are subnormal returned NaN: the fallback halved
+/// the drives, and two subnormals that differ can halve to the same value (0/0). The setting must
+/// stay finite and within the interval, both ways round.
+#[test]
+fn calibration_of_extreme_tables_stays_finite() {
+    use fourforce::orbit::Calibration;
+    let ulp = f32::from_bits(1); // the smallest subnormal
+    let (a, b) = (3.0 * ulp, 4.0 * ulp); // halved, both round to 2 ulp
+    let cal = Calibration::try_new([a, b], [-f32::MAX, f32::MAX]).unwrap();
+    for x in [a, b] {
+        let s = cal.try_setting(x).unwrap();
+        assert!(
+            s.is_finite() && (-f32::MAX..=f32::MAX).contains(&s),
+            "{x:e} -> {s:e}"
+        );
+    }
+    assert_eq!(cal.try_setting(a), Ok(-f32::MAX));
+    let wide = Calibration::try_new([-f64::MAX, f64::MAX], [-f64::MAX, f64::MAX]).unwrap();
+    let s = wide.try_setting(0.0).unwrap();
+    assert!(s.is_finite() && s.abs() <= f64::MAX * 1e-15, "{s:e}");
+    let d = wide.try_drive(f64::MAX * 0.5).unwrap();
+    assert!(
+        d.is_finite() && (d / (f64::MAX * 0.5) - 1.0).abs() < 1e-15,
+        "{d:e}"
+    );
+}
